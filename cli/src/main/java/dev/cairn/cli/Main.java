@@ -1,0 +1,70 @@
+package dev.cairn.cli;
+
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.UncheckedIOException;
+import java.util.Properties;
+import picocli.CommandLine;
+import picocli.CommandLine.Command;
+
+/** The {@code cairn} command: a thin shell over the models' Java API. */
+@Command(name = "cairn",
+        mixinStandardHelpOptions = true,
+        versionProvider = Main.Version.class,
+        description = {
+            "Bayesian inference for revenue and retention experiments.",
+            "",
+            "Results are statistical estimates under stated model assumptions (independent users, the chosen "
+                + "spend and retention families). Pricing and monetisation tests must follow local "
+                + "consumer-protection law, rules for minors and paid random items, and app-store policies. "
+                + "The output is not financial or legal advice."
+        },
+        subcommands = {CommandLine.HelpCommand.class})
+public final class Main implements Runnable {
+
+    @CommandLine.Spec
+    CommandLine.Model.CommandSpec spec;
+
+    public static void main(String[] args) {
+        System.exit(run(args));
+    }
+
+    /** Runs the command line and returns its exit code (0 ok, 1 internal error, 2 bad input, 3 not converged). */
+    public static int run(String... args) {
+        return commandLine().execute(args);
+    }
+
+    static CommandLine commandLine() {
+        CommandLine cl = new CommandLine(new Main());
+        cl.setExecutionExceptionHandler((ex, line, parsed) -> {
+            line.getErr().println("cairn: internal error: " + ex);
+            return ExitCodes.INTERNAL_ERROR;
+        });
+        return cl;
+    }
+
+    @Override
+    public void run() {
+        spec.commandLine().usage(spec.commandLine().getOut());
+    }
+
+    /** The version written into the jar at build time. */
+    static final class Version implements CommandLine.IVersionProvider {
+        @Override
+        public String[] getVersion() {
+            return new String[] {"cairn " + version()};
+        }
+    }
+
+    static String version() {
+        Properties p = new Properties();
+        try (InputStream in = Main.class.getResourceAsStream("/cairn.properties")) {
+            if (in != null) {
+                p.load(in);
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        return p.getProperty("version", "unknown");
+    }
+}

@@ -1,0 +1,161 @@
+package dev.cairn.samplers;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.concurrent.CancellationException;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
+import java.util.concurrent.atomic.AtomicBoolean;
+import org.apache.commons.rng.UniformRandomProvider;
+
+/**
+ * Runs chains in parallel threads and collects their kept draws on the parameters' natural scale.
+ *
+ * <p>Chain c uses only {@link RandomStreams#forChain(long, int) the stream of (seed, c)} and writes only its
+ * own slice of the output, so the draws are bit-identical whatever the number of threads.
+ */
+public final class ChainRunner {
+    private final RunSettings settings;
+    private final Progress progress;
+    private final Cancellation cancellation;
+
+    private ChainRunner(RunSettings settings, Progress progress, Cancellation cancellation) {
+        this.settings = settings;
+        this.progress = progress;
+        this.cancellation = cancellation;
+    }
+
+    public static ChainRunner of(RunSettings settings) {
+        if (settings == null) {
+            throw new IllegalArgumentException("run settings must not be null");
+        }
+        return new ChainRunner(settings, Progress.NONE, new Cancellation());
+    }
+
+    public ChainRunner withProgress(Progress p) {
+        return new ChainRunner(settings, p == null ? Progress.NONE : p, cancellation);
+    }
+
+    public ChainRunner withCancellation(Cancellation c) {
+        return new ChainRunner(settings, progress, c == null ? new Cancellation() : c);
+    }
+
+    public RunSettings settings() {
+        return settings;
+    }
+
+    /** MCMC: warmup with adaptation, then kept (thinned) draws with tuning frozen. */
+    public Draws run(Target target, Sweep sweep, Initializer init) {
+        Parameters p = target.parameters();
+        int d = p.size();
+        double[][][] out = new double[settings.chains()][d][settings.draws()];
+        parallel((chain, stop) -> {
+            UniformRandomProvider rng = RandomStreams.forChain(settings.seed(), chain);
+            Chain ch = Chain.start(target, sweep, init, chain, rng);
+            long total = settings.iterationsPerChain();
+            long every = Math.max(1, total / 200);
+            double[] constrained = new double[d];
+            long done = 0;
+            for (int t = 0; t < settings.warmup(); t++) {
+                checkCancelled(stop);
+                ch.iterate(true);
+                if (++done % every == 0) {
+                    progress.report(chain, done, total, true);
+                }
+            }
+            for (int k = 0; k < settings.draws(); k++) {
+                for (int s = 0; s < settings.thin(); s++) {
+                    checkCancelled(stop);
+                    ch.iterate(false);
+                    if (++done % every == 0) {
+                        progress.report(chain, done, total, false);
+                    }
+                }
+                p.constrain(ch.state().point(), constrained);
+                for (int j = 0; j < d; j++) {
+                    out[chain][j][k] = constrained[j];
+                }
+            }
+            progress.report(chain, total, total, false);
+        });
+        return Draws.adopt(p.names(), out);
+    }
+
+    /** Independent draws from a closed-form posterior; warmup and thinning do not apply. */
+    public Draws runExact(Parameters parameters, ExactSampler sampler) {
+        int d = parameters.size();
+        double[][][] out = new double[settings.chains()][d][settings.draws()];
+        parallel((chain, stop) -> {
+            UniformRandomProvider rng = RandomStreams.forChain(settings.seed(), chain);
+            double[] draw = new double[d];
+            long every = Math.max(1, settings.draws() / 200);
+            for (int k = 0; k < settings.draws(); k++) {
+                checkCancelled(stop);
+                sampler.draw(rng, draw);
+                for (int j = 0; j < d; j++) {
+                    out[chain][j][k] = draw[j];
+                }
+                if ((k + 1) % every == 0) {
+                    progress.report(chain, k + 1, settings.draws(), false);
+                }
+            }
+        });
+        return Draws.adopt(parameters.names(), out);
+    }
+
+    private interface ChainTask {
+        void run(int chain, AtomicBoolean stop);
+    }
+
+    private void checkCancelled(AtomicBoolean stop) {
+        if (stop.get() || cancellation.isCancelled()) {
+            throw new CancellationException("run cancelled");
+        }
+    }
+
+    private void parallel(ChainTask task) {
+        int threads = Math.min(settings.threads(), settings.chains());
+        AtomicBoolean stop = new AtomicBoolean();
+        if (threads == 1) {
+            for (int c = 0; c < settings.chains(); c++) {
+                task.run(c, stop);
+            }
+            return;
+        }
+        ExecutorService pool = Executors.newFixedThreadPool(threads, r -> {
+            Thread t = new Thread(r, "cairn-chain");
+            t.setDaemon(true);
+            return t;
+        });
+        try {
+            List<Future<?>> futures = new ArrayList<>();
+            for (int c = 0; c < settings.chains(); c++) {
+                final int chain = c;
+                futures.add(pool.submit(() -> task.run(chain, stop)));
+            }
+            for (Future<?> f : futures) {
+                try {
+                    f.get();
+                } catch (ExecutionException e) {
+                    stop.set(true);
+                    Throwable cause = e.getCause();
+                    if (cause instanceof RuntimeException re) {
+                        throw re;
+                    }
+                    if (cause instanceof Error err) {
+                        throw err;
+                    }
+                    throw new IllegalStateException(cause);
+                } catch (InterruptedException e) {
+                    stop.set(true);
+                    Thread.currentThread().interrupt();
+                    throw new CancellationException("interrupted");
+                }
+            }
+        } finally {
+            pool.shutdownNow();
+        }
+    }
+}

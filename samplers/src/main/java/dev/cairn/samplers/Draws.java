@@ -1,0 +1,181 @@
+package dev.cairn.samplers;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * Posterior draws: chains x iterations x named columns (parameters on their natural scale, then derived
+ * quantities). Immutable; accessors return copies.
+ */
+public final class Draws {
+    private final List<String> names;
+    private final Map<String, Integer> index;
+    /** values[chain][column][iteration]. */
+    private final double[][][] values;
+    private final int iterations;
+
+    private Draws(List<String> names, double[][][] values) {
+        this.names = List.copyOf(names);
+        this.values = values;
+        this.iterations = values[0][0].length;
+        this.index = new HashMap<>();
+        for (int i = 0; i < names.size(); i++) {
+            if (index.put(names.get(i), i) != null) {
+                throw new IllegalArgumentException("column '" + names.get(i) + "' appears twice");
+            }
+        }
+    }
+
+    /**
+     * Draws from arrays laid out as values[chain][column][iteration]; the arrays are copied.
+     * Every chain must have the same number of iterations, at least one.
+     */
+    public static Draws of(List<String> names, double[][][] values) {
+        if (names.isEmpty()) {
+            throw new IllegalArgumentException("draws need at least one column");
+        }
+        if (values.length == 0) {
+            throw new IllegalArgumentException("draws need at least one chain");
+        }
+        int n = -1;
+        double[][][] copy = new double[values.length][][];
+        for (int c = 0; c < values.length; c++) {
+            if (values[c].length != names.size()) {
+                throw new IllegalArgumentException("chain " + (c + 1) + " has " + values[c].length
+                        + " columns, expected " + names.size());
+            }
+            copy[c] = new double[names.size()][];
+            for (int j = 0; j < names.size(); j++) {
+                if (n < 0) {
+                    n = values[c][j].length;
+                }
+                if (values[c][j].length != n) {
+                    throw new IllegalArgumentException("chain " + (c + 1) + " has " + values[c][j].length
+                            + " iterations of '" + names.get(j) + "', expected " + n);
+                }
+                copy[c][j] = values[c][j].clone();
+            }
+        }
+        if (n < 1) {
+            throw new IllegalArgumentException("draws need at least one iteration");
+        }
+        return new Draws(names, copy);
+    }
+
+    /** Wraps arrays the caller hands over and will not touch again. */
+    static Draws adopt(List<String> names, double[][][] values) {
+        return new Draws(names, values);
+    }
+
+    public List<String> names() {
+        return names;
+    }
+
+    public int chains() {
+        return values.length;
+    }
+
+    public int iterations() {
+        return iterations;
+    }
+
+    public boolean has(String name) {
+        return index.containsKey(name);
+    }
+
+    /** The draws of one column as [chain][iteration] (a copy). */
+    public double[][] column(String name) {
+        int j = indexOf(name);
+        double[][] out = new double[values.length][];
+        for (int c = 0; c < values.length; c++) {
+            out[c] = values[c][j].clone();
+        }
+        return out;
+    }
+
+    /** All draws of one column, chains one after the other (a copy). */
+    public double[] pooled(String name) {
+        int j = indexOf(name);
+        double[] out = new double[values.length * iterations];
+        for (int c = 0; c < values.length; c++) {
+            System.arraycopy(values[c][j], 0, out, c * iterations, iterations);
+        }
+        return out;
+    }
+
+    public double value(int chain, int iteration, String name) {
+        return values[chain][indexOf(name)][iteration];
+    }
+
+    double value(int chain, int column, int iteration) {
+        return values[chain][column][iteration];
+    }
+
+    /** A quantity computed from one draw's values, in the order of {@link #names()}. */
+    @FunctionalInterface
+    public interface Derived {
+        double of(double[] draw);
+    }
+
+    /** These draws plus a column computed draw by draw. */
+    public Draws withDerived(String name, Derived f) {
+        if (index.containsKey(name)) {
+            throw new IllegalArgumentException("column '" + name + "' exists already");
+        }
+        int k = names.size();
+        double[] row = new double[k];
+        double[][][] out = new double[values.length][][];
+        for (int c = 0; c < values.length; c++) {
+            out[c] = Arrays.copyOf(values[c], k + 1);
+            double[] derived = new double[iterations];
+            for (int t = 0; t < iterations; t++) {
+                for (int j = 0; j < k; j++) {
+                    row[j] = values[c][j][t];
+                }
+                derived[t] = f.of(row);
+            }
+            out[c][k] = derived;
+        }
+        List<String> newNames = new ArrayList<>(names);
+        newNames.add(name);
+        return new Draws(newNames, out);
+    }
+
+    /** Only the named columns, in the order given. */
+    public Draws select(List<String> columns) {
+        double[][][] out = new double[values.length][columns.size()][];
+        for (int j = 0; j < columns.size(); j++) {
+            int src = indexOf(columns.get(j));
+            for (int c = 0; c < values.length; c++) {
+                out[c][j] = values[c][src];
+            }
+        }
+        return new Draws(columns, out);
+    }
+
+    private int indexOf(String name) {
+        Integer j = index.get(name);
+        if (j == null) {
+            throw new IllegalArgumentException("no column named '" + name + "'; columns: " + names);
+        }
+        return j;
+    }
+
+    @Override
+    public boolean equals(Object o) {
+        return o instanceof Draws d && names.equals(d.names) && Arrays.deepEquals(values, d.values);
+    }
+
+    @Override
+    public int hashCode() {
+        return names.hashCode() * 31 + Arrays.deepHashCode(values);
+    }
+
+    @Override
+    public String toString() {
+        return "Draws[" + chains() + " chains x " + iterations + " iterations, columns " + names + "]";
+    }
+}
