@@ -19,7 +19,7 @@ import picocli.CommandLine.Command;
                 + "consumer-protection law, rules for minors and paid random items, and app-store policies. "
                 + "The output is not financial or legal advice."
         },
-        subcommands = {CommandLine.HelpCommand.class})
+        subcommands = {DiagnoseCommand.class, CommandLine.HelpCommand.class})
 public final class Main implements Runnable {
 
     @CommandLine.Spec

@@ -173,8 +173,8 @@ public final class DrawsCsv {
     private static double number(String cell, long line, String column) {
         try {
             double v = Double.parseDouble(cell);
-            if (Double.isNaN(v)) {
-                throw new FormatException(line, "column '" + column + "' is NaN");
+            if (!Double.isFinite(v)) {
+                throw new FormatException(line, "column '" + column + "' is not a finite number: '" + cell + "'");
             }
             return v;
         } catch (NumberFormatException e) {

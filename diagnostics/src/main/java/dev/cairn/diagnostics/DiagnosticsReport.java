@@ -1,0 +1,64 @@
+package dev.cairn.diagnostics;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+
+/**
+ * Diagnostics of every parameter and the verdict. Converged when every defined R-hat is below the
+ * threshold and every defined bulk- and tail-ESS reaches the per-chain minimum times the number of
+ * chains; {@link #reasons()} lists each failure. Constant parameters are listed as notes, not failures.
+ */
+public record DiagnosticsReport(List<ParameterDiagnostics> parameters, Thresholds thresholds,
+                                double maxRhat, double minEssBulk, double minEssTail,
+                                boolean converged, List<String> reasons, List<String> notes) {
+
+    public DiagnosticsReport {
+        parameters = List.copyOf(parameters);
+        reasons = List.copyOf(reasons);
+        notes = List.copyOf(notes);
+    }
+
+    public static DiagnosticsReport of(List<ParameterDiagnostics> parameters, Thresholds thresholds) {
+        double maxRhat = Double.NaN, minBulk = Double.NaN, minTail = Double.NaN;
+        List<String> reasons = new ArrayList<>();
+        List<String> notes = new ArrayList<>();
+        for (ParameterDiagnostics p : parameters) {
+            if (!p.note().isEmpty()) {
+                notes.add(p.name() + ": " + p.note());
+            }
+            if (!Double.isNaN(p.rhat())) {
+                maxRhat = Double.isNaN(maxRhat) ? p.rhat() : Math.max(maxRhat, p.rhat());
+            }
+            if (!Double.isNaN(p.essBulk())) {
+                minBulk = Double.isNaN(minBulk) ? p.essBulk() : Math.min(minBulk, p.essBulk());
+            }
+            if (!Double.isNaN(p.essTail())) {
+                minTail = Double.isNaN(minTail) ? p.essTail() : Math.min(minTail, p.essTail());
+            }
+            if (p.rhat() == p.rhat() && !(p.rhat() < thresholds.maxRhat())) {
+                reasons.add(String.format(Locale.ROOT, "R-hat of %s is %s (must be < %s)", p.name(),
+                        format(p.rhat()), format(thresholds.maxRhat())));
+            }
+            double need = thresholds.minEssPerChain() * p.chains();
+            if (p.essBulk() == p.essBulk() && p.essBulk() < need) {
+                reasons.add(String.format(Locale.ROOT, "bulk-ESS of %s is %.0f (needs >= %.0f)", p.name(), p.essBulk(), need));
+            }
+            if (p.essTail() == p.essTail() && p.essTail() < need) {
+                reasons.add(String.format(Locale.ROOT, "tail-ESS of %s is %.0f (needs >= %.0f)", p.name(), p.essTail(), need));
+            }
+            if (!p.defined() && p.sd() > 0) {
+                reasons.add(p.name() + ": diagnostics undefined (" + p.note() + ")");
+            }
+        }
+        if (parameters.isEmpty()) {
+            reasons.add("no parameters to diagnose");
+        }
+        return new DiagnosticsReport(parameters, thresholds, maxRhat, minBulk, minTail, reasons.isEmpty(),
+                reasons, notes);
+    }
+
+    private static String format(double v) {
+        return Double.isInfinite(v) ? "infinite" : String.format(Locale.ROOT, "%.3f", v);
+    }
+}

@@ -1,0 +1,117 @@
+package dev.cairn.diagnostics;
+
+/**
+ * Multi-chain effective sample size (Vehtari, Gelman, Simpson, Carpenter & Buerkner 2021, "Rank-
+ * normalization, folding, and localization", Bayesian Analysis 16(2):667-718, section 3.2 and
+ * appendix), with Geyer's (1992, Statistical Science 7(4)) initial positive and initial monotone sequence.
+ *
+ * <pre>
+ *   W      = mean over chains of s_m^2                     (within-chain variance)
+ *   var+   = (N-1)/N W + B/N,  B/N = variance of chain means (0 for one chain)
+ *   rho_t  = 1 - (W - mean_m gamma_{m,t}) / var+           (combined autocorrelation)
+ *   P_k    = rho_{2k} + rho_{2k+1}, summed while positive and made non-increasing
+ *   tau    = -1 + 2 sum_{t<=2K+1} rho_t (+ a last positive even term), at least 1/log10(MN)
+ *   ESS    = M N / tau
+ * </pre>
+ * The floor on tau caps ESS at M N log10(M N) for antithetic chains.
+ */
+public final class Ess {
+    private Ess() {
+    }
+
+    /** ESS of draws laid out as chains[m][n]; NaN when undefined (fewer than 4 draws, or no variation). */
+    public static double of(double[][] chains) {
+        return of(Flat.of(chains));
+    }
+
+    static double of(Flat chains) {
+        int n = chains.length();
+        if (n < 4) {
+            return Double.NaN;
+        }
+        // First with padding to a power of two of at least 1.25 N: lags up to (padded - N) are exact,
+        // which covers the truncation point of any reasonably mixing chain; if not, again with full padding.
+        double ess = of(chains, Autocovariance.of(chains, Integer.highestOneBit(n + n / 4) << 1));
+        return Double.isNaN(ess) ? of(chains, Autocovariance.of(chains, 0)) : ess;
+    }
+
+    /** ESS from autocovariances exact up to lag acov[c].length - 1; NaN when more lags are needed. */
+    private static double of(Flat chains, double[][] acov) {
+        int m = chains.chains();
+        int n = chains.length();
+        int lags = acov[0].length;
+        double meanOfVars = 0;
+        double[] means = new double[m];
+        for (int c = 0; c < m; c++) {
+            means[c] = chains.mean(c);
+            meanOfVars += acov[c][0] * n / (n - 1.0);
+        }
+        meanOfVars /= m;
+        double varPlus = meanOfVars * (n - 1.0) / n;
+        if (m > 1) {
+            varPlus += variance(means);
+        }
+        if (!(varPlus > 0) || !(meanOfVars > 0)) {
+            return Double.NaN;
+        }
+        // rho[t] is the combined autocorrelation at lag t; t runs over even lags, pairs (t, t+1).
+        double[] rho = new double[n];
+        rho[0] = 1;
+        double even = 1;
+        double odd = 1 - (meanOfVars - meanAt(acov, 1)) / varPlus;
+        rho[1] = odd;
+        int t = 0;
+        while (t < n - 5 && even + odd > 0) {
+            t += 2;
+            if (t + 1 >= lags) {
+                return Double.NaN; // needs lags beyond the exact ones: the caller pads fully
+            }
+            even = 1 - (meanOfVars - meanAt(acov, t)) / varPlus;
+            odd = 1 - (meanOfVars - meanAt(acov, t + 1)) / varPlus;
+            if (even + odd >= 0) {
+                rho[t] = even;
+                rho[t + 1] = odd;
+            }
+        }
+        int maxT = t;
+        // A last positive even lag reduces the variance of the estimate for antithetic chains.
+        if (even > 0) {
+            rho[maxT] = even;
+        }
+        // Initial monotone sequence: no pair sum larger than the pair before it.
+        for (t = 2; t <= maxT - 2; t += 2) {
+            if (rho[t] + rho[t + 1] > rho[t - 2] + rho[t - 1]) {
+                rho[t] = (rho[t - 2] + rho[t - 1]) / 2;
+                rho[t + 1] = rho[t];
+            }
+        }
+        double total = (double) m * n;
+        double sum = 0;
+        for (t = 0; t < maxT; t++) {
+            sum += rho[t];
+        }
+        double tau = -1 + 2 * sum + rho[maxT];
+        tau = Math.max(tau, 1 / Math.log10(total));
+        return total / tau;
+    }
+
+    private static double meanAt(double[][] acov, int t) {
+        double s = 0;
+        for (double[] a : acov) {
+            s += t < a.length ? a[t] : 0;
+        }
+        return s / acov.length;
+    }
+
+    static double variance(double[] x) {
+        if (x.length < 2) {
+            return 0;
+        }
+        double mean = Autocovariance.mean(x);
+        double s = 0;
+        for (double v : x) {
+            s += (v - mean) * (v - mean);
+        }
+        return s / (x.length - 1);
+    }
+}
