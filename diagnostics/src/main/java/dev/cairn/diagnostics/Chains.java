@@ -1,8 +1,6 @@
 package dev.cairn.diagnostics;
 
-import java.util.Arrays;
-
-/** Operations on draws laid out as chains[m][n]: splitting, pooling, rank-normalising, folding. */
+/** Checks and helpers for draws laid out as chains[m][n]. */
 final class Chains {
     private Chains() {
     }
@@ -30,41 +28,11 @@ final class Chains {
         }
     }
 
-    /**
-     * Each chain cut into its first and second half (the middle draw of an odd-length chain is dropped), so
-     * a trend within a chain shows up as disagreement between halves.
-     */
-    static double[][] split(double[][] chains) {
-        int n = chains[0].length;
-        if (n < 2) {
-            return chains;
-        }
-        int half = n / 2;
-        double[][] out = new double[2 * chains.length][];
-        for (int c = 0; c < chains.length; c++) {
-            out[2 * c] = Arrays.copyOfRange(chains[c], 0, half);
-            out[2 * c + 1] = Arrays.copyOfRange(chains[c], n - half, n);
-        }
-        return out;
-    }
-
     static double[] pool(double[][] chains) {
         int n = chains[0].length;
         double[] out = new double[chains.length * n];
         for (int c = 0; c < chains.length; c++) {
             System.arraycopy(chains[c], 0, out, c * n, n);
-        }
-        return out;
-    }
-
-    /** The same values in the same chain layout, computed element by element. */
-    static double[][] map(double[][] chains, java.util.function.DoubleUnaryOperator f) {
-        double[][] out = new double[chains.length][];
-        for (int c = 0; c < chains.length; c++) {
-            out[c] = new double[chains[c].length];
-            for (int t = 0; t < chains[c].length; t++) {
-                out[c][t] = f.applyAsDouble(chains[c][t]);
-            }
         }
         return out;
     }

@@ -74,8 +74,8 @@ class EssTest {
             double[][] x = Simulated.shift(Simulated.ar1(4, 400 + random.nextInt(400), random.nextDouble(0, 0.9),
                     random.nextLong()), 1, random.nextDouble(0, 0.5));
             ParameterDiagnostics a = Diagnostics.of("x", x);
-            ParameterDiagnostics b = Diagnostics.of("exp x", Chains.map(x, Math::exp));
-            ParameterDiagnostics c = Diagnostics.of("x^3", Chains.map(x, v -> v * v * v + v));
+            ParameterDiagnostics b = Diagnostics.of("exp x", Simulated.map(x, Math::exp));
+            ParameterDiagnostics c = Diagnostics.of("x^3", Simulated.map(x, v -> v * v * v + v));
             for (ParameterDiagnostics other : new ParameterDiagnostics[] {b, c}) {
                 assertEquals(a.rhatBulk(), other.rhatBulk(), 1e-12);
                 assertEquals(a.essBulk(), other.essBulk(), 1e-9 * a.essBulk());

@@ -40,6 +40,16 @@ final class Simulated {
         return y;
     }
 
+    static double[][] map(double[][] x, java.util.function.DoubleUnaryOperator f) {
+        double[][] y = copy(x);
+        for (double[] chain : y) {
+            for (int t = 0; t < chain.length; t++) {
+                chain[t] = f.applyAsDouble(chain[t]);
+            }
+        }
+        return y;
+    }
+
     static double[][] copy(double[][] x) {
         double[][] y = new double[x.length][];
         for (int c = 0; c < x.length; c++) {
