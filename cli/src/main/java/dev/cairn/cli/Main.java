@@ -1,9 +1,5 @@
 package dev.cairn.cli;
 
-import java.io.IOException;
-import java.io.InputStream;
-import java.io.UncheckedIOException;
-import java.util.Properties;
 import picocli.CommandLine;
 import picocli.CommandLine.Command;
 
@@ -19,7 +15,8 @@ import picocli.CommandLine.Command;
                 + "consumer-protection law, rules for minors and paid random items, and app-store policies. "
                 + "The output is not financial or legal advice."
         },
-        subcommands = {DiagnoseCommand.class, CommandLine.HelpCommand.class})
+        subcommands = {FitCommand.class, DiagnoseCommand.class, DemoCommand.class, SchemaCommand.class,
+            CommandLine.HelpCommand.class})
 public final class Main implements Runnable {
 
     @CommandLine.Spec
@@ -57,14 +54,6 @@ public final class Main implements Runnable {
     }
 
     static String version() {
-        Properties p = new Properties();
-        try (InputStream in = Main.class.getResourceAsStream("/cairn.properties")) {
-            if (in != null) {
-                p.load(in);
-            }
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
-        return p.getProperty("version", "unknown");
+        return dev.cairn.models.Version.get();
     }
 }

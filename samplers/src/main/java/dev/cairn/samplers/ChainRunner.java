@@ -88,12 +88,12 @@ public final class ChainRunner {
         int d = parameters.size();
         double[][][] out = new double[settings.chains()][d][settings.draws()];
         parallel((chain, stop) -> {
-            UniformRandomProvider rng = RandomStreams.forChain(settings.seed(), chain);
+            ExactSampler.Source source = sampler.start(RandomStreams.forChain(settings.seed(), chain));
             double[] draw = new double[d];
             long every = Math.max(1, settings.draws() / 200);
             for (int k = 0; k < settings.draws(); k++) {
                 checkCancelled(stop);
-                sampler.draw(rng, draw);
+                source.draw(draw);
                 for (int j = 0; j < d; j++) {
                     out[chain][j][k] = draw[j];
                 }

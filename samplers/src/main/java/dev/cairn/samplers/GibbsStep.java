@@ -14,21 +14,34 @@ public final class GibbsStep implements Step {
         void draw(double[] point, UniformRandomProvider rng);
     }
 
-    private final ConditionalDraw draw;
+    private final java.util.function.Supplier<ConditionalDraw> perChain;
 
-    private GibbsStep(ConditionalDraw draw) {
-        this.draw = draw;
+    private GibbsStep(java.util.function.Supplier<ConditionalDraw> perChain) {
+        this.perChain = perChain;
     }
 
+    /** A stateless conditional draw, shared by all chains. */
     public static GibbsStep of(ConditionalDraw draw) {
         if (draw == null) {
             throw new IllegalArgumentException("conditional draw must not be null");
         }
-        return new GibbsStep(draw);
+        return new GibbsStep(() -> draw);
+    }
+
+    /**
+     * A conditional draw with per-chain state (for example samplers bound to the chain's random stream):
+     * {@code factory} makes one for each chain.
+     */
+    public static GibbsStep perChain(java.util.function.Supplier<ConditionalDraw> factory) {
+        if (factory == null) {
+            throw new IllegalArgumentException("conditional draw factory must not be null");
+        }
+        return new GibbsStep(factory);
     }
 
     @Override
     public Updater start(Target target) {
+        ConditionalDraw draw = perChain.get();
         return (state, rng, adapt) -> {
             draw.draw(state.point(), rng);
             state.refresh();

@@ -60,7 +60,10 @@ class RunnerTest {
     @Test
     void exactSamplerYieldsDrawsThatIgnoreThreadCount() {
         Parameters p = Parameters.real("z");
-        ExactSampler normal = (rng, out) -> out[0] = ZigguratSampler.NormalizedGaussian.of(rng).sample();
+        ExactSampler normal = rng -> {
+            ZigguratSampler.NormalizedGaussian gaussian = ZigguratSampler.NormalizedGaussian.of(rng);
+            return out -> out[0] = gaussian.sample();
+        };
         RunSettings s = RunSettings.of(4, 0, 5000, 3);
         Draws one = ChainRunner.of(s.withThreads(1)).runExact(p, normal);
         Draws two = ChainRunner.of(s.withThreads(2)).runExact(p, normal);

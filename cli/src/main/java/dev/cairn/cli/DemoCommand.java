@@ -1,0 +1,53 @@
+package dev.cairn.cli;
+
+import dev.cairn.models.FitOptions;
+import dev.cairn.models.InputException;
+import dev.cairn.models.demo.Demo;
+import dev.cairn.models.demo.DemoScenario;
+import java.io.PrintWriter;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.concurrent.Callable;
+import picocli.CommandLine;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+/** {@code cairn demo [--out DIR]}: build the invented demo data and fit every example spec. */
+@Command(name = "demo", mixinStandardHelpOptions = true,
+        description = {
+            "Build the demo data - Lantern Reef, an invented game by the invented studio Driftwood Forge, "
+                + "testing four store layouts on 160,000 simulated players with known true parameters - and "
+                + "fit every example spec on it.",
+            "Exit code 0 when every fit converged, 3 otherwise."
+        })
+final class DemoCommand implements Callable<Integer> {
+
+    @Option(names = "--out", paramLabel = "DIR", defaultValue = "demo-out",
+            description = "Folder for the data, the specs and one result folder per spec (default: ${DEFAULT-VALUE}).")
+    Path out;
+
+    @CommandLine.Spec
+    CommandLine.Model.CommandSpec command;
+
+    @Override
+    public Integer call() {
+        PrintWriter stdout = command.commandLine().getOut();
+        stdout.println("Demo data: " + out.resolve(DemoScenario.USERS_FILE) + " (true parameters in the README).");
+        stdout.flush();
+        List<Demo.Fitted> fitted;
+        try {
+            fitted = Demo.run(out, FitOptions.DEFAULT, f -> {
+                stdout.println();
+                stdout.println("=== " + f.spec() + " ===");
+                stdout.print(ResultPrinter.spend(f.outcome().result()));
+                stdout.println("Wrote " + f.folder().resolve("result.json") + " and draws.csv");
+                stdout.flush();
+            });
+        } catch (InputException e) {
+            command.commandLine().getErr().println("cairn demo: " + e.getMessage());
+            return ExitCodes.BAD_INPUT;
+        }
+        boolean all = fitted.stream().allMatch(f -> f.outcome().result().converged());
+        return all ? ExitCodes.OK : ExitCodes.NOT_CONVERGED;
+    }
+}

@@ -1,0 +1,70 @@
+package dev.cairn.cli;
+
+import dev.cairn.models.Cairn;
+import dev.cairn.models.FitOptions;
+import dev.cairn.models.FitOutcome;
+import dev.cairn.models.InputException;
+import dev.cairn.models.ResultWriter;
+import java.io.PrintWriter;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.concurrent.Callable;
+import picocli.CommandLine;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Parameters;
+
+/** {@code cairn fit SPEC.json --out DIR}: fit a spec and write result.json and draws.csv. */
+@Command(name = "fit",
+        mixinStandardHelpOptions = true,
+        description = {
+            "Fit the model a spec describes and write DIR/result.json and DIR/draws.csv.",
+            "Exit code 0: converged; 2: bad spec or data (nothing written); 3: fitted but not converged "
+                + "(files written with \"converged\": false); 1: internal error."
+        })
+final class FitCommand implements Callable<Integer> {
+
+    @Parameters(index = "0", paramLabel = "SPEC.json", description = "The spec (see: cairn schema).")
+    Path spec;
+
+    @Option(names = "--out", paramLabel = "DIR", required = true, description = "Folder for result.json and draws.csv.")
+    Path out;
+
+    @Option(names = "--threads", paramLabel = "N", description = "Worker threads (results do not depend on it).")
+    Integer threads;
+
+    @Option(names = "--quiet", description = "Print nothing but errors.")
+    boolean quiet;
+
+    @CommandLine.Spec
+    CommandLine.Model.CommandSpec command;
+
+    @Override
+    public Integer call() {
+        PrintWriter stdout = command.commandLine().getOut();
+        PrintWriter err = command.commandLine().getErr();
+        if (Files.exists(out) && !Files.isDirectory(out)) {
+            err.println("cairn fit: --out " + out + ": exists and is not a folder");
+            return ExitCodes.BAD_INPUT;
+        }
+        if (threads != null && threads < 1) {
+            err.println("cairn fit: --threads must be >= 1, was " + threads);
+            return ExitCodes.BAD_INPUT;
+        }
+        FitOutcome outcome;
+        try {
+            FitOptions options = threads == null ? FitOptions.DEFAULT : FitOptions.DEFAULT.withThreads(threads);
+            outcome = Cairn.fit(spec, options);
+        } catch (InputException e) {
+            err.println("cairn fit: " + e.getMessage());
+            return ExitCodes.BAD_INPUT;
+        }
+        ResultWriter.write(outcome, out);
+        if (!quiet) {
+            stdout.print(ResultPrinter.spend(outcome.result()));
+            stdout.println("\nWrote " + out.resolve(ResultWriter.RESULT) + " and " + out.resolve(ResultWriter.DRAWS));
+            stdout.flush();
+        }
+        return outcome.result().converged() ? ExitCodes.OK : ExitCodes.NOT_CONVERGED;
+    }
+}

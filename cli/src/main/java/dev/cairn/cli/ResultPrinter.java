@@ -1,0 +1,100 @@
+package dev.cairn.cli;
+
+import dev.cairn.models.result.ArmSummary;
+import dev.cairn.models.result.Check;
+import dev.cairn.models.result.Comparison;
+import dev.cairn.models.result.Interval;
+import dev.cairn.models.result.Result;
+import java.util.Locale;
+import java.util.Map;
+
+/** The terminal summary of a spend result: arms, comparisons, verdict, checks, warnings, cautions. */
+final class ResultPrinter {
+    private ResultPrinter() {
+    }
+
+    static String spend(Result r) {
+        String level = String.format(Locale.ROOT, "%.4g%%", 100 * r.interval()).replaceFirst("\\.?0+%$", "%");
+        StringBuilder sb = new StringBuilder();
+        if (r.title() != null) {
+            sb.append(r.title()).append('\n');
+        }
+        sb.append(String.format(Locale.ROOT, "%s: %,d users in %d arms from %s; %s sampler, %d chains x %,d draws, seed %d%n",
+                r.model(), r.data().users(), r.arms().size(), r.data().source(), r.run().method(), r.run().chains(),
+                r.run().draws(), r.run().seed()));
+        sb.append(r.converged() ? "Converged (R-hat and ESS checks passed).\n"
+                : "NOT CONVERGED - the numbers below are not to be trusted:\n");
+        if (!r.converged()) {
+            r.diagnostics().reasons().forEach(x -> sb.append("  - ").append(x).append('\n'));
+        }
+        sb.append('\n');
+        boolean spend = r.arms().values().iterator().next().arpu() != null;
+        int width = Math.max(3, r.arms().keySet().stream().mapToInt(String::length).max().orElse(3));
+        String header = spend ? "%-" + width + "s  %10s  %8s  %-29s  %-29s  %s%n" : "%-" + width + "s  %10s  %8s  %s%n";
+        if (spend) {
+            sb.append(String.format(Locale.ROOT, header, "arm", "users", "payers", "ARPU", "payer rate", "ARPPU"));
+        } else {
+            sb.append(String.format(Locale.ROOT, header, "arm", "users", "payers", "payer rate"));
+        }
+        for (Map.Entry<String, ArmSummary> e : r.arms().entrySet()) {
+            ArmSummary a = e.getValue();
+            String name = e.getKey() + (e.getKey().equals(r.control()) ? "*" : "");
+            if (spend) {
+                sb.append(String.format(Locale.ROOT, header, name, String.format(Locale.ROOT, "%,d", a.users()),
+                        String.format(Locale.ROOT, "%,d", a.payers()), interval(a.arpu(), 4), percent(a.payerRate()),
+                        interval(a.arppu(), 4)));
+            } else {
+                sb.append(String.format(Locale.ROOT, header, name, String.format(Locale.ROOT, "%,d", a.users()),
+                        String.format(Locale.ROOT, "%,d", a.payers()), percent(a.payerRate())));
+            }
+        }
+        sb.append("(* control; intervals are ").append(level).append(" credible intervals: median [lo, hi])\n\n");
+
+        sb.append("Against ").append(r.control()).append(":\n");
+        String row = "  %-" + width + "s  %-10s  %-28s  %11s  %14s%n";
+        sb.append(String.format(Locale.ROOT, row, "arm", "metric", "lift median [lo, hi]", "P(above)", "expected loss"));
+        for (Comparison c : r.comparisons()) {
+            sb.append(String.format(Locale.ROOT, row, c.arm(), label(c.metric()),
+                    String.format(Locale.ROOT, "%+.1f%% [%+.1f%%, %+.1f%%]", 100 * c.lift().median(), 100 * c.lift().lo(),
+                            100 * c.lift().hi()),
+                    String.format(Locale.ROOT, "%.3f", c.probAbove()), Numbers.sig(c.expectedLoss(), 3)));
+        }
+        sb.append('\n');
+        for (Map.Entry<String, Map<String, Double>> e : r.probBest().entrySet()) {
+            sb.append("P(best ").append(label(e.getKey())).append("): ");
+            StringBuilder parts = new StringBuilder();
+            e.getValue().forEach((arm, p) -> parts.append(parts.length() == 0 ? "" : ", ")
+                    .append(arm).append(' ').append(String.format(Locale.ROOT, "%.3f", p)));
+            sb.append(parts).append('\n');
+        }
+        long misfits = r.checks().stream().filter(Check::misfit).count();
+        if (!r.checks().isEmpty()) {
+            sb.append(String.format(Locale.ROOT, "%nPredictive checks: %d of %d statistics reproduced%s%n",
+                    r.checks().size() - misfits, r.checks().size(), misfits == 0 ? "." : "; see warnings."));
+        }
+        if (r.warnings() != null && !r.warnings().isEmpty()) {
+            sb.append("\nWarnings:\n");
+            r.warnings().forEach(w -> sb.append("  ! ").append(w).append('\n'));
+        }
+        sb.append('\n');
+        r.cautions().forEach(c -> sb.append("Note: ").append(c).append('\n'));
+        return sb.toString();
+    }
+
+    private static String label(String metric) {
+        return switch (metric) {
+            case "arpu" -> "ARPU";
+            case "arppu" -> "ARPPU";
+            case "payerRate" -> "payer rate";
+            default -> metric;
+        };
+    }
+
+    private static String interval(Interval i, int digits) {
+        return Numbers.sig(i.median(), digits) + " [" + Numbers.sig(i.lo(), digits) + ", " + Numbers.sig(i.hi(), digits) + "]";
+    }
+
+    private static String percent(Interval i) {
+        return String.format(Locale.ROOT, "%.2f%% [%.2f%%, %.2f%%]", 100 * i.median(), 100 * i.lo(), 100 * i.hi());
+    }
+}

@@ -1,0 +1,70 @@
+package dev.cairn.models;
+
+import com.fasterxml.jackson.core.JsonGenerator;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import com.fasterxml.jackson.databind.SerializationFeature;
+import dev.cairn.models.result.Result;
+import dev.cairn.samplers.DrawsCsv;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.io.Writer;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.AtomicMoveNotSupportedException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.StandardCopyOption;
+
+/**
+ * Writes result.json and draws.csv into a folder, each through a temporary file renamed into place, so
+ * a reader never sees a half-written file and an interrupted run leaves the old files intact.
+ */
+public final class ResultWriter {
+    public static final String RESULT = "result.json";
+    public static final String DRAWS = "draws.csv";
+    private static final ObjectMapper MAPPER = new ObjectMapper()
+            .enable(SerializationFeature.INDENT_OUTPUT)
+            .disable(JsonGenerator.Feature.AUTO_CLOSE_TARGET);
+
+    private ResultWriter() {
+    }
+
+    public static String json(Result result) {
+        try {
+            return MAPPER.writeValueAsString(result) + "\n";
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    public static void write(FitOutcome outcome, Path dir) {
+        try {
+            Files.createDirectories(dir);
+            atomically(dir.resolve(RESULT), w -> w.write(json(outcome.result())));
+            atomically(dir.resolve(DRAWS), w -> DrawsCsv.write(outcome.draws(), w));
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /** Writes text through the given action into a temporary sibling, then renames it onto {@code target}. */
+    public static void atomically(Path target, TextAction action) throws IOException {
+        Path tmp = Files.createTempFile(target.getParent(), "." + target.getFileName(), ".tmp");
+        try {
+            try (Writer w = Files.newBufferedWriter(tmp, StandardCharsets.UTF_8)) {
+                action.write(w);
+            }
+            try {
+                Files.move(tmp, target, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
+            } catch (AtomicMoveNotSupportedException e) {
+                Files.move(tmp, target, StandardCopyOption.REPLACE_EXISTING);
+            }
+        } finally {
+            Files.deleteIfExists(tmp);
+        }
+    }
+
+    @FunctionalInterface
+    public interface TextAction {
+        void write(Writer w) throws IOException;
+    }
+}

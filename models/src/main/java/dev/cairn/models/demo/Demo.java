@@ -1,0 +1,70 @@
+package dev.cairn.models.demo;
+
+import dev.cairn.models.Cairn;
+import dev.cairn.models.FitOptions;
+import dev.cairn.models.FitOutcome;
+import dev.cairn.models.ResultWriter;
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+
+/**
+ * The demo: builds the invented scenario's data in a folder, copies every example spec beside it, fits
+ * each, and writes each result into a sub-folder named after the spec.
+ */
+public final class Demo {
+    private static final String EXAMPLES = "/dev/cairn/models/examples/";
+
+    private Demo() {
+    }
+
+    /** One fitted example: its spec name, the folder its outputs went to, and the outcome. */
+    public record Fitted(String spec, Path folder, FitOutcome outcome) {
+    }
+
+    /** The example spec names, in the order the demo fits them. */
+    public static List<String> examples() {
+        return resource("index.txt").lines().map(String::strip).filter(s -> !s.isEmpty()).toList();
+    }
+
+    public static String exampleText(String name) {
+        return resource(name);
+    }
+
+    /** Writes data and specs into {@code dir}, then fits every example; {@code each} sees each fit as it ends. */
+    public static List<Fitted> run(Path dir, FitOptions options, java.util.function.Consumer<Fitted> each) {
+        DemoScenario.writeUsers(dir);
+        List<Fitted> out = new ArrayList<>();
+        for (String name : examples()) {
+            try {
+                Path spec = dir.resolve(name);
+                Files.writeString(spec, exampleText(name), StandardCharsets.UTF_8);
+                FitOutcome outcome = Cairn.fit(spec, options);
+                Path folder = dir.resolve(name.replaceFirst("\\.json$", ""));
+                ResultWriter.write(outcome, folder);
+                Fitted f = new Fitted(name, folder, outcome);
+                out.add(f);
+                each.accept(f);
+            } catch (IOException e) {
+                throw new UncheckedIOException(e);
+            }
+        }
+        return out;
+    }
+
+    private static String resource(String name) {
+        try (InputStream in = Demo.class.getResourceAsStream(EXAMPLES + name)) {
+            if (in == null) {
+                throw new IllegalStateException("example missing from the jar: " + name);
+            }
+            return new String(in.readAllBytes(), StandardCharsets.UTF_8);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+}

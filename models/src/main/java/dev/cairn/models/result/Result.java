@@ -1,0 +1,29 @@
+package dev.cairn.models.result;
+
+import com.fasterxml.jackson.annotation.JsonInclude;
+import com.fasterxml.jackson.annotation.JsonPropertyOrder;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * The result of a fit (result v1; keys are part of the command-line contract).
+ *
+ * @param interval the credible interval mass of every {@link Interval} (lo and hi)
+ * @param probBest metric -> arm -> P(arm is the best of all arms on that metric)
+ * @param priors   the priors used (defaults included), for the record
+ */
+@JsonInclude(JsonInclude.Include.NON_NULL)
+@JsonPropertyOrder({"model", "title", "converged", "control", "interval", "data", "arms", "comparisons", "probBest", "checks",
+    "diagnostics", "run", "priors", "warnings", "cautions"})
+public record Result(String model, String title, boolean converged, String control, double interval, DataInfo data,
+                     Map<String, ArmSummary> arms, List<Comparison> comparisons,
+                     Map<String, Map<String, Double>> probBest, List<Check> checks, DiagnosticsSummary diagnostics,
+                     Run run, Object priors, List<String> warnings, List<String> cautions) {
+
+    /** Shown with every result (DESIGN: cautions the tool shows). */
+    public static final List<String> CAUTIONS = List.of(
+            "Results are statistical estimates under stated model assumptions (independent users, the chosen "
+                    + "spend and retention families).",
+            "Pricing and monetisation tests must follow local consumer-protection law, rules for minors and paid "
+                    + "random items, and app-store policies; this output is not financial or legal advice.");
+}

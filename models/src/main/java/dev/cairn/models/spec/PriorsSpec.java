@@ -1,0 +1,36 @@
+package dev.cairn.models.spec;
+
+import com.fasterxml.jackson.annotation.JsonInclude;
+
+/**
+ * Priors of the spend model. {@code logSpend} (conjugate Normal-Inverse-Gamma) and
+ * {@code logSpendMean} + {@code logSpendSd} (non-conjugate) are alternatives; {@code fromHistory} fits
+ * the payer-rate and log-spend priors to past periods.
+ */
+@JsonInclude(JsonInclude.Include.NON_NULL)
+public record PriorsSpec(BetaPrior payerRate, NigPrior logSpend, NormalPrior logSpendMean,
+                         HalfNormalPrior logSpendSd, HistorySpec fromHistory) {
+
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record BetaPrior(String family, double a, double b) {
+    }
+
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record NigPrior(String family, double mu0, double kappa0, double alpha0, double beta0) {
+    }
+
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record NormalPrior(String family, double mean, double sd) {
+    }
+
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record HalfNormalPrior(String family, double sd) {
+    }
+
+    public record HistorySpec(String path) {
+    }
+
+    public boolean nonConjugate() {
+        return logSpendMean != null || logSpendSd != null;
+    }
+}

@@ -1,0 +1,205 @@
+package dev.cairn.models.spec;
+
+import com.fasterxml.jackson.core.JsonLocation;
+import com.fasterxml.jackson.core.JsonParser;
+import com.fasterxml.jackson.core.JsonProcessingException;
+import com.fasterxml.jackson.databind.DeserializationFeature;
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import com.networknt.schema.JsonSchema;
+import com.networknt.schema.JsonSchemaFactory;
+import com.networknt.schema.PathType;
+import com.networknt.schema.SchemaValidatorsConfig;
+import com.networknt.schema.SpecVersion;
+import com.networknt.schema.ValidationMessage;
+import dev.cairn.models.InputException;
+import java.io.IOException;
+import java.nio.charset.CharacterCodingException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.NoSuchFileException;
+import java.nio.file.Path;
+import java.util.Comparator;
+import java.util.List;
+import java.util.Locale;
+import java.util.Set;
+
+/**
+ * Reads a spec: JSON syntax, then the JSON Schema (so unknown keys and wrong types are refused with the
+ * JSON pointer of the offending value and, for an unknown key, the closest known one), then the rules a
+ * schema cannot say. Every failure is an {@link InputException} with one line.
+ */
+public final class SpecReader {
+    private static final ObjectMapper MAPPER = new ObjectMapper()
+            .enable(JsonParser.Feature.STRICT_DUPLICATE_DETECTION)
+            .enable(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES)
+            .enable(DeserializationFeature.FAIL_ON_NULL_FOR_PRIMITIVES)
+            .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS);
+    private static final JsonNode SCHEMA_TREE = SpecSchema.tree();
+    private static final JsonSchema SCHEMA = JsonSchemaFactory.getInstance(SpecVersion.VersionFlag.V202012)
+            .getSchema(SCHEMA_TREE, SchemaValidatorsConfig.builder().pathType(PathType.JSON_POINTER).build());
+
+    /** Most draws a fit may keep in all (chains x draws), so draws fit in memory. */
+    public static final long MAX_KEPT_DRAWS = 4_000_000L;
+
+    private SpecReader() {
+    }
+
+    public static Spec read(Path file) {
+        String origin = file.toString();
+        if (Files.isDirectory(file)) {
+            throw new InputException(origin + ": is a folder, expected a spec JSON file");
+        }
+        String text;
+        try {
+            text = StandardCharsets.UTF_8.newDecoder().decode(java.nio.ByteBuffer.wrap(Files.readAllBytes(file))).toString();
+        } catch (NoSuchFileException e) {
+            throw new InputException(origin + ": no such file");
+        } catch (CharacterCodingException e) {
+            throw new InputException(origin + ": not UTF-8 text");
+        } catch (IOException e) {
+            throw new InputException(origin + ": cannot be read (" + e.getMessage() + ")");
+        }
+        return parse(text, origin);
+    }
+
+    /** Parses and validates spec text; {@code origin} names it in messages. */
+    public static Spec parse(String text, String origin) {
+        JsonNode tree;
+        try {
+            tree = MAPPER.readTree(text);
+        } catch (JsonProcessingException e) {
+            JsonLocation at = e.getLocation();
+            String where = at == null ? "" : " at line " + at.getLineNr() + ", column " + at.getColumnNr();
+            throw new InputException(origin + ": not valid JSON" + where + ": " + e.getOriginalMessage());
+        }
+        if (tree == null || tree.isMissingNode()) {
+            throw new InputException(origin + ": empty file, expected a JSON object");
+        }
+        Set<ValidationMessage> errors = SCHEMA.validate(tree);
+        if (!errors.isEmpty()) {
+            ValidationMessage first = errors.stream()
+                    .min(Comparator.comparing((ValidationMessage m) -> rank(m.getType()))
+                            .thenComparing(m -> m.getInstanceLocation().toString()))
+                    .orElseThrow();
+            throw new InputException(origin + ": " + describe(first));
+        }
+        Spec spec;
+        try {
+            spec = MAPPER.treeToValue(tree, Spec.class);
+        } catch (JsonProcessingException e) {
+            throw new InputException(origin + ": " + e.getOriginalMessage());
+        }
+        checkRules(spec, origin);
+        return spec;
+    }
+
+    /** Errors about unknown or missing keys are the most useful; report them first. */
+    private static int rank(String type) {
+        return switch (type) {
+            case "additionalProperties" -> 0;
+            case "required" -> 1;
+            case "type", "enum", "const" -> 2;
+            case "oneOf" -> 4;
+            default -> 3;
+        };
+    }
+
+    private static String describe(ValidationMessage m) {
+        String at = m.getInstanceLocation().toString();
+        String pointer = at.isEmpty() ? "/" : at;
+        switch (m.getType()) {
+            case "additionalProperties" -> {
+                String key = m.getProperty();
+                String path = at + "/" + key;
+                String hint = closest(key, SpecSchema.keysAt(SCHEMA_TREE, at));
+                return path + ": unknown key '" + key + "'" + (hint == null ? "" : " (did you mean '" + hint + "'?)");
+            }
+            case "required" -> {
+                return (at.isEmpty() ? "" : at) + "/" + m.getProperty() + ": required key is missing";
+            }
+            case "oneOf" -> {
+                if (at.equals("/data")) {
+                    return "/data: give exactly one of 'path' (a CSV or Parquet file) and 'rows' (inline rows)";
+                }
+                return pointer + ": " + stripPath(m.getMessage(), at);
+            }
+            default -> {
+                return pointer + ": " + stripPath(m.getMessage(), at);
+            }
+        }
+    }
+
+    private static String stripPath(String message, String at) {
+        String prefix = at + ": ";
+        return message.startsWith(prefix) ? message.substring(prefix.length()) : message;
+    }
+
+    /** The known key nearest to {@code key} in edit distance, when near enough to be a likely typo. */
+    static String closest(String key, List<String> known) {
+        String best = null;
+        int bestDistance = Integer.MAX_VALUE;
+        for (String k : known) {
+            int d = editDistance(key.toLowerCase(Locale.ROOT), k.toLowerCase(Locale.ROOT));
+            if (d < bestDistance) {
+                bestDistance = d;
+                best = k;
+            }
+        }
+        return best != null && bestDistance <= Math.max(2, best.length() / 3) ? best : null;
+    }
+
+    /** Levenshtein distance (insertions, deletions, substitutions), two-row dynamic programme. */
+    private static int editDistance(String a, String b) {
+        int[] previous = new int[b.length() + 1];
+        int[] current = new int[b.length() + 1];
+        for (int j = 0; j <= b.length(); j++) {
+            previous[j] = j;
+        }
+        for (int i = 1; i <= a.length(); i++) {
+            current[0] = i;
+            for (int j = 1; j <= b.length(); j++) {
+                int substitute = previous[j - 1] + (a.charAt(i - 1) == b.charAt(j - 1) ? 0 : 1);
+                current[j] = Math.min(substitute, Math.min(previous[j] + 1, current[j - 1] + 1));
+            }
+            int[] swap = previous;
+            previous = current;
+            current = swap;
+        }
+        return previous[b.length()];
+    }
+
+    /** Rules across fields that the schema does not express. */
+    private static void checkRules(Spec spec, String origin) {
+        PriorsSpec p = spec.priorsOrEmpty();
+        if (p.logSpend() != null && p.nonConjugate()) {
+            throw new InputException(origin + ": /priors: give either 'logSpend' (conjugate) or 'logSpendMean' and "
+                    + "'logSpendSd' (non-conjugate), not both");
+        }
+        if (p.nonConjugate() && (p.logSpendMean() == null || p.logSpendSd() == null)) {
+            throw new InputException(origin + ": /priors/" + (p.logSpendMean() == null ? "logSpendMean" : "logSpendSd")
+                    + ": required with '" + (p.logSpendMean() == null ? "logSpendSd" : "logSpendMean") + "'");
+        }
+        if (p.fromHistory() != null && (p.logSpend() != null || p.nonConjugate() || p.payerRate() != null)) {
+            throw new InputException(origin + ": /priors/fromHistory: fits the payer-rate and log-spend priors itself; "
+                    + "remove 'payerRate', 'logSpend', 'logSpendMean' and 'logSpendSd'");
+        }
+        SamplerSpec s = spec.samplerOrDefault();
+        if ("exact".equals(s.method()) && p.nonConjugate()) {
+            throw new InputException(origin + ": /sampler/method: 'exact' needs conjugate priors, but 'logSpendMean'/"
+                    + "'logSpendSd' are not; use 'auto', 'slice' or 'metropolis-within-gibbs'");
+        }
+        long kept = (long) s.chains() * s.draws();
+        if (kept > MAX_KEPT_DRAWS) {
+            throw new InputException(origin + ": /sampler: chains x draws = " + kept + " is more than "
+                    + MAX_KEPT_DRAWS + " kept draws; use fewer draws or thin");
+        }
+        if ((long) s.warmup() + (long) s.draws() * s.thin() > 10_000_000L) {
+            throw new InputException(origin + ": /sampler: warmup + draws x thin = "
+                    + ((long) s.warmup() + (long) s.draws() * s.thin()) + " iterations per chain is more than 10000000");
+        }
+        if (spec.data().path() != null && spec.data().rows() != null) {
+            throw new InputException(origin + ": /data: give exactly one of 'path' and 'rows'");
+        }
+    }
+}

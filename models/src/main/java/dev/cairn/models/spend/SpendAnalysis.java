@@ -1,0 +1,246 @@
+package dev.cairn.models.spend;
+
+import dev.cairn.models.data.ArmStats;
+import dev.cairn.models.data.SpendData;
+import dev.cairn.models.result.ArmSummary;
+import dev.cairn.models.result.Check;
+import dev.cairn.models.result.Comparison;
+import dev.cairn.models.result.Interval;
+import dev.cairn.samplers.Draws;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import org.apache.commons.math3.distribution.BinomialDistribution;
+import org.apache.commons.math3.special.Erf;
+import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ChengBetaSampler;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
+
+/** Quantities derived from spend draws: ARPPU and ARPU, per-arm summaries, comparisons, P(best), checks. */
+public final class SpendAnalysis {
+    /** Replicated data sets drawn for the predictive checks. */
+    static final int REPLICATIONS = 1000;
+    /** Up to this many payers a replicated mean spend is simulated payer by payer; above, by the CLT. */
+    static final int SIMULATE_PAYERS_UP_TO = 20_000;
+    /** Predictive p-values below this (or above 1 - this) flag a misfit. */
+    static final double MISFIT = 0.005;
+
+    private SpendAnalysis() {
+    }
+
+    /** Adds arppu[arm] = exp(mu + sigma^2 / 2) and arpu[arm] = payerRate x arppu for every arm. */
+    public static Draws withDerived(Draws draws, SpendData data) {
+        if (!data.hasSpend()) {
+            return draws;
+        }
+        Draws out = draws;
+        for (ArmStats a : data.arms()) {
+            int mu = draws.names().indexOf(SpendPosterior.name(SpendPosterior.LOG_SPEND_MEAN, a.arm()));
+            int sigma = draws.names().indexOf(SpendPosterior.name(SpendPosterior.LOG_SPEND_SD, a.arm()));
+            int rate = draws.names().indexOf(SpendPosterior.name(SpendPosterior.PAYER_RATE, a.arm()));
+            out = out.withDerived(SpendPosterior.name(SpendPosterior.ARPPU, a.arm()),
+                    x -> Math.exp(x[mu] + 0.5 * x[sigma] * x[sigma]));
+            out = out.withDerived(SpendPosterior.name(SpendPosterior.ARPU, a.arm()),
+                    x -> x[rate] * Math.exp(x[mu] + 0.5 * x[sigma] * x[sigma]));
+        }
+        return out;
+    }
+
+    /** The metrics compared: ARPU, payer rate and ARPPU with spend; the payer rate alone without. */
+    public static List<String> metrics(SpendData data) {
+        return data.hasSpend()
+                ? List.of(SpendPosterior.ARPU, SpendPosterior.PAYER_RATE, SpendPosterior.ARPPU)
+                : List.of(SpendPosterior.PAYER_RATE);
+    }
+
+    public static Map<String, ArmSummary> arms(Draws draws, SpendData data, double level) {
+        Map<String, ArmSummary> out = new LinkedHashMap<>();
+        for (ArmStats a : data.arms()) {
+            Interval rate = Interval.of(draws.pooled(SpendPosterior.name(SpendPosterior.PAYER_RATE, a.arm())), level);
+            Interval arpu = data.hasSpend()
+                    ? Interval.of(draws.pooled(SpendPosterior.name(SpendPosterior.ARPU, a.arm())), level) : null;
+            Interval arppu = data.hasSpend()
+                    ? Interval.of(draws.pooled(SpendPosterior.name(SpendPosterior.ARPPU, a.arm())), level) : null;
+            out.put(a.arm(), new ArmSummary(a.users(), a.payers(), arpu, rate, arppu));
+        }
+        return out;
+    }
+
+    /** Every non-control arm against the control on every metric, draw by draw. */
+    public static List<Comparison> comparisons(Draws draws, SpendData data, String control, double level) {
+        List<Comparison> out = new ArrayList<>();
+        for (ArmStats a : data.arms()) {
+            if (a.arm().equals(control)) {
+                continue;
+            }
+            for (String metric : metrics(data)) {
+                double[] arm = draws.pooled(SpendPosterior.name(metric, a.arm()));
+                double[] base = draws.pooled(SpendPosterior.name(metric, control));
+                out.add(compare(a.arm(), control, metric, arm, base, level));
+            }
+        }
+        return out;
+    }
+
+    static Comparison compare(String arm, String control, String metric, double[] x, double[] c, double level) {
+        double[] lift = new double[x.length];
+        double[] difference = new double[x.length];
+        double above = 0;
+        double loss = 0;
+        for (int i = 0; i < x.length; i++) {
+            lift[i] = x[i] / c[i] - 1;
+            difference[i] = x[i] - c[i];
+            above += x[i] > c[i] ? 1 : 0;
+            loss += Math.max(c[i] - x[i], 0);
+        }
+        return new Comparison(arm, control, metric, Interval.of(lift, level), Interval.of(difference, level),
+                above / x.length, loss / x.length);
+    }
+
+    /** P(best): the share of draws in which each arm has the highest value of the metric. */
+    public static Map<String, Map<String, Double>> probBest(Draws draws, SpendData data) {
+        Map<String, Map<String, Double>> out = new LinkedHashMap<>();
+        List<String> arms = data.armNames();
+        for (String metric : metrics(data)) {
+            double[][] values = new double[arms.size()][];
+            for (int k = 0; k < arms.size(); k++) {
+                values[k] = draws.pooled(SpendPosterior.name(metric, arms.get(k)));
+            }
+            long[] best = new long[arms.size()];
+            int n = values[0].length;
+            for (int i = 0; i < n; i++) {
+                int argmax = 0;
+                for (int k = 1; k < arms.size(); k++) {
+                    if (values[k][i] > values[argmax][i]) {
+                        argmax = k;
+                    }
+                }
+                best[argmax]++;
+            }
+            Map<String, Double> m = new LinkedHashMap<>();
+            for (int k = 0; k < arms.size(); k++) {
+                m.put(arms.get(k), (double) best[k] / n);
+            }
+            out.put(metric, m);
+        }
+        return out;
+    }
+
+    /**
+     * Posterior predictive checks per arm (Gelman et al., BDA3 chapter 6): for evenly spaced posterior
+     * draws, a replicated data set of the arm's size is drawn and its statistic compared with the observed
+     * one. Statistics: share of users who did not pay; mean spend per user; payers' median, 90th and 99th
+     * percentile; the largest spend. Replicated order statistics are drawn exactly without simulating
+     * every payer: the k-th of m uniform order statistics is Beta(k, m - k + 1), the largest is V^(1/m)
+     * (Devroye 1986, Non-Uniform Random Variate Generation, chapter V), mapped through the lognormal
+     * quantile function. The replicated mean is simulated payer by payer up to 20,000 payers and by the
+     * central limit theorem above.
+     */
+    public static List<Check> checks(Draws draws, SpendData data, UniformRandomProvider rng) {
+        List<Check> out = new ArrayList<>();
+        if (!data.hasSpend()) {
+            return out;
+        }
+        int total = draws.chains() * draws.iterations();
+        int r = Math.min(REPLICATIONS, total);
+        ZigguratSampler.NormalizedGaussian gaussian = ZigguratSampler.NormalizedGaussian.of(rng);
+        boolean observedSpend = data.hasObservedSpendStatistics();
+        for (ArmStats a : data.arms()) {
+            double[] p = draws.pooled(SpendPosterior.name(SpendPosterior.PAYER_RATE, a.arm()));
+            double[] mu = draws.pooled(SpendPosterior.name(SpendPosterior.LOG_SPEND_MEAN, a.arm()));
+            double[] sigma = draws.pooled(SpendPosterior.name(SpendPosterior.LOG_SPEND_SD, a.arm()));
+            String[] names = {"zeroShare", "meanSpend", "payerP50", "payerP90", "payerP99", "maxSpend"};
+            double[] observed = {1 - (double) a.payers() / a.users(), a.spendSum() / a.users(), a.payerP50(),
+                a.payerP90(), a.payerP99(), a.spendMax()};
+            int statistics = observedSpend && a.payers() > 0 ? names.length : 1;
+            double[] above = new double[statistics];
+            for (int j = 0; j < r; j++) {
+                int i = (int) ((long) j * total / r);
+                int payers = replicatedPayers(a.users(), p[i], rng);
+                double[] replicated = new double[statistics];
+                replicated[0] = 1 - (double) payers / a.users();
+                if (statistics > 1) {
+                    replicated[1] = payers == 0 ? 0 : replicatedTotal(payers, mu[i], sigma[i], gaussian) / a.users();
+                    replicated[2] = orderStatistic(payers, 0.5, mu[i], sigma[i], rng);
+                    replicated[3] = orderStatistic(payers, 0.9, mu[i], sigma[i], rng);
+                    replicated[4] = orderStatistic(payers, 0.99, mu[i], sigma[i], rng);
+                    replicated[5] = payers == 0 ? 0 : maximum(payers, mu[i], sigma[i], rng);
+                }
+                for (int s = 0; s < statistics; s++) {
+                    above[s] += replicated[s] > observed[s] ? 1 : replicated[s] == observed[s] ? 0.5 : 0;
+                }
+            }
+            for (int s = 0; s < statistics; s++) {
+                double pValue = above[s] / r;
+                out.add(new Check(a.arm(), names[s], observed[s], pValue, pValue < MISFIT || pValue > 1 - MISFIT));
+            }
+        }
+        return out;
+    }
+
+    /** A plain-words warning for each misfit. */
+    public static List<String> warnings(List<Check> checks) {
+        List<String> out = new ArrayList<>();
+        for (Check c : checks) {
+            if (!c.misfit()) {
+                continue;
+            }
+            String direction = c.pValue() < 0.5 ? "higher" : "lower";
+            String meaning = switch (c.statistic()) {
+                case "maxSpend", "payerP99", "meanSpend" -> c.pValue() < 0.5
+                        ? "a few payers spend more than a lognormal allows (extreme payers); ARPU and ARPPU intervals "
+                                + "may be too narrow - check those users, or analyse with and without them"
+                        : "payers' spend has a lighter upper tail than a lognormal; ARPPU may be overstated";
+                case "zeroShare" -> "the share of non-payers does not match the payer rate";
+                default -> "payers' spend is not shaped like a lognormal";
+            };
+            out.add(String.format(java.util.Locale.ROOT,
+                    "arm %s: observed %s (%.4g) is %s than the model reproduces (predictive p = %.3f): %s.",
+                    c.arm(), c.statistic(), c.observed(), direction, c.pValue(), meaning));
+        }
+        return out;
+    }
+
+    private static int replicatedPayers(long users, double p, UniformRandomProvider rng) {
+        if (users > Integer.MAX_VALUE) {
+            throw new IllegalArgumentException("an arm with more than " + Integer.MAX_VALUE + " users");
+        }
+        return new BinomialDistribution(null, (int) users, p).inverseCumulativeProbability(rng.nextDouble());
+    }
+
+    private static double replicatedTotal(int payers, double mu, double sigma, ZigguratSampler.NormalizedGaussian g) {
+        if (payers <= SIMULATE_PAYERS_UP_TO) {
+            double sum = 0;
+            for (int i = 0; i < payers; i++) {
+                sum += Math.exp(mu + sigma * g.sample());
+            }
+            return sum;
+        }
+        double s2 = sigma * sigma;
+        double mean = Math.exp(mu + s2 / 2);
+        double variance = Math.expm1(s2) * Math.exp(2 * mu + s2);
+        return payers * mean + Math.sqrt(payers * variance) * g.sample();
+    }
+
+    /** The replicated payer q-quantile (order statistic floor(q (m - 1)) + 1 of m). */
+    private static double orderStatistic(int payers, double q, double mu, double sigma, UniformRandomProvider rng) {
+        if (payers == 0) {
+            return 0;
+        }
+        int k = (int) Math.floor(q * (payers - 1)) + 1;
+        double u = ChengBetaSampler.of(rng, k, payers - k + 1.0).sample();
+        return Math.exp(mu + sigma * normalQuantile(u));
+    }
+
+    /** The largest of m lognormals: U = V^(1/m); 1 - U = -expm1(log V / m) keeps the upper tail exact. */
+    private static double maximum(int payers, double mu, double sigma, UniformRandomProvider rng) {
+        double upper = -Math.expm1(Math.log(rng.nextDouble()) / payers);
+        return Math.exp(mu - sigma * normalQuantile(upper));
+    }
+
+    /** Standard normal quantile via the inverse complementary error function, accurate in both tails. */
+    static double normalQuantile(double u) {
+        return -Math.sqrt(2) * Erf.erfcInv(2 * u);
+    }
+}

@@ -1,0 +1,119 @@
+package dev.cairn.models.spend;
+
+import dev.cairn.diagnostics.Diagnostics;
+import dev.cairn.diagnostics.DiagnosticsReport;
+import dev.cairn.diagnostics.Thresholds;
+import dev.cairn.models.FitOptions;
+import dev.cairn.models.FitOutcome;
+import dev.cairn.models.InputException;
+import dev.cairn.models.Version;
+import dev.cairn.models.data.ArmStats;
+import dev.cairn.models.data.SpendData;
+import dev.cairn.models.data.SpendDataReader;
+import dev.cairn.models.result.Check;
+import dev.cairn.models.result.DataInfo;
+import dev.cairn.models.result.DiagnosticsSummary;
+import dev.cairn.models.result.Result;
+import dev.cairn.models.result.Run;
+import dev.cairn.models.spec.ConvergenceSpec;
+import dev.cairn.models.spec.SamplerSpec;
+import dev.cairn.models.spec.Spec;
+import dev.cairn.samplers.Draws;
+import dev.cairn.samplers.RandomStreams;
+import dev.cairn.samplers.RunSettings;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+
+/** A spend fit from spec to result: data, priors, sampler, derived quantities, diagnostics, decisions. */
+public final class SpendFit {
+    private SpendFit() {
+    }
+
+    public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
+        long start = System.nanoTime();
+        SpendData data = SpendDataReader.read(spec.data(), baseDir, spec.isStrict());
+        List<String> arms = data.armNames();
+        if (arms.size() < 2) {
+            throw new InputException(data.source() + ": found " + arms.size() + " arm (" + String.join(", ", arms)
+                    + "); a comparison needs at least two");
+        }
+        String control = spec.control() == null ? arms.get(0) : spec.control();
+        if (!arms.contains(control)) {
+            throw new InputException("/control: arm '" + control + "' is not in the data; arms found: "
+                    + String.join(", ", arms));
+        }
+        SpendPriors priors = spec.priorsOrEmpty().fromHistory() != null
+                ? HistoryPriors.fit(spec.priorsOrEmpty().fromHistory().path(), baseDir)
+                : SpendPriors.fromSpec(spec.priorsOrEmpty());
+
+        SamplerSpec s = spec.samplerOrDefault();
+        String method = method(s.method(), priors, data);
+        int threads = options.threads() != null ? options.threads()
+                : s.threads() != null ? s.threads()
+                : Math.max(1, Math.min(s.chains(), Runtime.getRuntime().availableProcessors()));
+        RunSettings settings = new RunSettings(s.chains(), method.equals("exact") ? 0 : s.warmup(), s.draws(),
+                method.equals("exact") ? 1 : s.thin(), s.seed(), threads);
+
+        Draws draws = method.equals("exact")
+                ? SpendPosterior.exact(data, priors, settings, options.progress(), options.cancellation())
+                : SpendPosterior.mcmc(data, priors, method.equals("slice"), settings, options.progress(),
+                        options.cancellation());
+        draws = SpendAnalysis.withDerived(draws, data);
+
+        List<double[][]> columns = new ArrayList<>();
+        for (String name : draws.names()) {
+            columns.add(draws.column(name));
+        }
+        DiagnosticsReport report = Diagnostics.of(draws.names(), columns, thresholds(spec.convergence()));
+
+        double level = spec.interval();
+        List<Check> checks = SpendAnalysis.checks(draws, data, RandomStreams.forChain(s.seed(), s.chains()));
+        List<String> warnings = new ArrayList<>(data.warnings());
+        warnings.addAll(SpendAnalysis.warnings(checks));
+        if (!report.converged()) {
+            warnings.add(0, "NOT converged: " + String.join("; ", report.reasons())
+                    + ". Do not use these numbers for decisions; run longer or change the sampler.");
+        }
+        for (ArmStats a : data.arms()) {
+            if (data.hasSpend() && a.payers() == 0) {
+                warnings.add("arm " + a.arm() + ": no payers, so its ARPPU comes from the prior alone.");
+            }
+        }
+        long users = data.arms().stream().mapToLong(ArmStats::users).sum();
+        double seconds = Math.round((System.nanoTime() - start) / 1e6) / 1e3;
+        Result result = new Result("spend", spec.title(), report.converged(), control, level,
+                new DataInfo(data.source(), spec.data().layout(), data.rows(), users, data.query()),
+                SpendAnalysis.arms(draws, data, level),
+                SpendAnalysis.comparisons(draws, data, control, level),
+                SpendAnalysis.probBest(draws, data),
+                checks, DiagnosticsSummary.of(report),
+                new Run(method, settings.chains(), settings.warmup(), settings.draws(), settings.thin(), settings.seed(),
+                        seconds, Version.get()),
+                priors, warnings, Result.CAUTIONS);
+        return new FitOutcome(result, draws);
+    }
+
+    /** auto: exact for conjugate priors or conversion-only data, slice sampling otherwise. */
+    static String method(String requested, SpendPriors priors, SpendData data) {
+        boolean conjugate = priors.conjugate() || !data.hasSpend();
+        return switch (requested) {
+            case "auto" -> conjugate ? "exact" : "slice";
+            case "exact" -> {
+                if (!conjugate) {
+                    throw new InputException("/sampler/method: 'exact' needs conjugate priors");
+                }
+                yield "exact";
+            }
+            default -> requested;
+        };
+    }
+
+    static Thresholds thresholds(ConvergenceSpec c) {
+        if (c == null) {
+            return Thresholds.DEFAULT;
+        }
+        return new Thresholds(c.maxRhat() == null ? Thresholds.DEFAULT.maxRhat() : c.maxRhat(),
+                c.minEssPerChain() == null ? Thresholds.DEFAULT.minEssPerChain() : c.minEssPerChain());
+    }
+}
