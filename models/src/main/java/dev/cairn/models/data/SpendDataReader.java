@@ -204,14 +204,19 @@ public final class SpendDataReader {
         }
         boolean hasSpend = s1 != null;
         String armExpr = "trim(CAST(" + Sql.identifier(arm) + " AS VARCHAR))";
-        String n = "CAST(" + Sql.identifier(users) + " AS BIGINT)";
-        String m = "CAST(" + Sql.identifier(payers) + " AS BIGINT)";
+        // Counts are read as numbers and checked to be whole, so 100.5 users is refused rather than rounded.
+        String n = "CAST(" + Sql.identifier(users) + " AS DOUBLE)";
+        String m = "CAST(" + Sql.identifier(payers) + " AS DOUBLE)";
         String a = hasSpend ? "CAST(" + Sql.identifier(s1) + " AS DOUBLE)" : "0.0";
         String b = hasSpend ? "CAST(" + Sql.identifier(s2) + " AS DOUBLE)" : "0.0";
         // Row checks first: summary tables are small, and a bad row must be named, not summed away.
         String[][] rules = {
             {armExpr + " IS NULL OR " + armExpr + " = ''", arm, "arm is empty"},
             {n + " IS NULL OR " + m + " IS NULL", users + "/" + payers, "users and payers must be given"},
+            {"isnan(" + n + ") OR isinf(" + n + ") OR " + n + " <> floor(" + n + ")", users,
+                "users must be a whole number"},
+            {"isnan(" + m + ") OR isinf(" + m + ") OR " + m + " <> floor(" + m + ")", payers,
+                "payers must be a whole number"},
             {n + " < 0 OR " + m + " < 0", users + "/" + payers, "users and payers must be >= 0"},
             {m + " > " + n, payers, "payers must not exceed users"},
             {hasSpend ? "(" + m + " > 0 AND (" + a + " IS NULL OR " + b + " IS NULL))" : "false",
@@ -245,7 +250,8 @@ public final class SpendDataReader {
                        sum(payers) AS payers,
                        sum(log_spend_sum) AS log_spend_sum,
                        sum(log_spend_sq_sum) AS log_spend_sq_sum
-                FROM (SELECT %s AS arm, %s AS users, %s AS payers, coalesce(%s, 0.0) AS log_spend_sum,
+                FROM (SELECT %s AS arm, CAST(%s AS BIGINT) AS users, CAST(%s AS BIGINT) AS payers,
+                             coalesce(%s, 0.0) AS log_spend_sum,
                              coalesce(%s, 0.0) AS log_spend_sq_sum FROM %s)
                 GROUP BY arm ORDER BY arm""".formatted(armExpr, n, m, a, b, source.relation);
         List<ArmStats> arms = new ArrayList<>();
@@ -369,10 +375,8 @@ public final class SpendDataReader {
         /** The engine type a CSV column is read as: numbers where the model needs numbers, text otherwise. */
         private static String typeOf(String column, DataSpec data) {
             if ("summary".equals(data.layout())) {
-                if (column.equals(data.column(USERS, USERS)) || column.equals(data.column(PAYERS, PAYERS))) {
-                    return "BIGINT";
-                }
-                if (column.equals(data.column("logSpendSum", LOG_SUM)) || column.equals(data.column("logSpendSqSum", LOG_SQ_SUM))) {
+                if (column.equals(data.column(USERS, USERS)) || column.equals(data.column(PAYERS, PAYERS))
+                        || column.equals(data.column("logSpendSum", LOG_SUM)) || column.equals(data.column("logSpendSqSum", LOG_SQ_SUM))) {
                     return "DOUBLE";
                 }
                 return "VARCHAR";
@@ -427,11 +431,6 @@ public final class SpendDataReader {
                                 throw new InputException("spec: " + where + ": expected a number, found " + v);
                             }
                             insert.setDouble(j++, v.doubleValue());
-                        } else if (e.getValue().equals("BIGINT")) {
-                            if (!v.isIntegralNumber()) {
-                                throw new InputException("spec: " + where + ": expected a whole number, found " + v);
-                            }
-                            insert.setLong(j++, v.longValue());
                         } else if (e.getValue().equals("BOOLEAN")) {
                             if (!(v.isBoolean() || (v.isIntegralNumber() && (v.intValue() == 0 || v.intValue() == 1)))) {
                                 throw new InputException("spec: " + where + ": expected true/false or 1/0, found " + v);
