@@ -28,17 +28,9 @@ import java.util.Set;
  * query per layout over a CSV file, a Parquet file or inline rows. Bad data are refused with the file,
  * line and column, never dropped.
  *
- * <p>The {@code users} layout query, with the source and columns filled in:
- * <pre>
- * SELECT arm,
- *        count(*)                                           AS users,
- *        count(*) FILTER (WHERE spend &gt; 0)                  AS payers,
- *        sum(ln(CASE WHEN spend &gt; 0 THEN spend END))        AS log_spend_sum,
- *        sum(ln(CASE WHEN spend &gt; 0 THEN spend END) ^ 2)    AS log_spend_sq_sum,
- *        ...observed statistics for the predictive checks and counts of bad values...
- * FROM (SELECT trim(CAST(&lt;arm&gt; AS VARCHAR)) AS arm, CAST(&lt;spend&gt; AS DOUBLE) AS spend FROM &lt;source&gt;)
- * GROUP BY arm ORDER BY arm
- * </pre>
+ * <p>The {@code users} layout query is {@link #usersQuery}: one scan, grouped by arm, counting users and
+ * payers and summing log spend and its square over payers, with the observed statistics the predictive
+ * checks need and the checks for bad values riding along.
  * ({@code ln} is guarded by CASE because the engine evaluates it even for rows a FILTER excludes.)
  */
 public final class SpendDataReader {
@@ -85,76 +77,74 @@ public final class SpendDataReader {
                     + "', set data.columns.spend) or a 0/1 conversion column ('" + data.column(CONVERTED, CONVERTED)
                     + "', set data.columns.converted); columns found: " + String.join(", ", source.columns));
         }
-        String armExpr = "trim(CAST(" + Sql.identifier(arm) + " AS VARCHAR))";
-        String query;
-        if (spend != null) {
-            query = """
-                    SELECT arm,
-                           count(*) AS users,
-                           count(*) FILTER (WHERE spend > 0) AS payers,
-                           sum(ln(CASE WHEN spend > 0 THEN spend END)) AS log_spend_sum,
-                           sum(ln(CASE WHEN spend > 0 THEN spend END) ^ 2) AS log_spend_sq_sum,
-                           sum(spend) AS spend_sum,
-                           quantile_disc(CASE WHEN spend > 0 THEN spend END, [0.5, 0.9, 0.99]) AS payer_quantiles,
-                           max(spend) AS spend_max,
-                           count(*) FILTER (WHERE spend IS NULL) AS missing,
-                           count(*) FILTER (WHERE isnan(spend) OR isinf(spend)) AS not_finite,
-                           count(*) FILTER (WHERE spend < 0) AS negative
-                    FROM (SELECT %s AS arm, CAST(%s AS DOUBLE) AS spend FROM %s)
-                    GROUP BY arm ORDER BY arm""".formatted(armExpr, Sql.identifier(spend), source.relation);
-        } else {
-            query = """
-                    SELECT arm,
-                           count(*) AS users,
-                           count(*) FILTER (WHERE converted) AS payers,
-                           count(*) FILTER (WHERE converted IS NULL) AS missing
-                    FROM (SELECT %s AS arm, CAST(%s AS BOOLEAN) AS converted FROM %s)
-                    GROUP BY arm ORDER BY arm""".formatted(armExpr, Sql.identifier(converted), source.relation);
-        }
-        List<ArmStats> arms = new ArrayList<>();
+        // Arms are grouped as written; only if some value carries surrounding blanks is the query run again
+        // with trim(), so " B " and "B" count as one arm without paying for trim() on every row.
+        List<ArmStats> arms = null;
+        String query = null;
         long rows = 0;
-        long missing = 0, notFinite = 0, negative = 0, emptyArms = 0;
-        try (Statement s = db.createStatement(); ResultSet r = s.executeQuery(query)) {
-            while (r.next()) {
-                String name = r.getString("arm");
-                long users = r.getLong("users");
-                rows += users;
-                missing += r.getLong("missing");
-                if (name == null || name.isEmpty()) {
-                    emptyArms += users;
-                    continue;
+        for (boolean trim : new boolean[] {false, true}) {
+            String armExpr = trim ? "trim(CAST(" + Sql.identifier(arm) + " AS VARCHAR))"
+                    : "CAST(" + Sql.identifier(arm) + " AS VARCHAR)";
+            query = spend != null ? usersQuery(armExpr, Sql.identifier(spend), source.relation)
+                    : conversionQuery(armExpr, Sql.identifier(converted), source.relation);
+            arms = new ArrayList<>();
+            rows = 0;
+            boolean untrimmed = false;
+            long missing = 0, emptyArms = 0, negative = 0;
+            boolean notFinite = false;
+            try (Statement s = db.createStatement(); ResultSet r = s.executeQuery(query)) {
+                while (r.next()) {
+                    String name = r.getString("arm");
+                    long users = r.getLong("users");
+                    rows += users;
+                    missing += users - r.getLong("present");
+                    if (name == null || name.isBlank()) {
+                        emptyArms += users;
+                        continue;
+                    }
+                    untrimmed |= !name.equals(name.strip());
+                    if (spend != null) {
+                        double sum = r.getDouble("spend_sum");
+                        double min = r.getDouble("spend_min");
+                        double max = r.getDouble("spend_max");
+                        notFinite |= r.getLong("present") > 0 && (!Double.isFinite(sum) || !Double.isFinite(max)
+                                || !Double.isFinite(min));
+                        negative += min < 0 ? 1 : 0;
+                        double[] q = quantiles(r.getArray("payer_quantiles"));
+                        arms.add(new ArmStats(name, users, r.getLong("payers"), r.getDouble("log_spend_sum"),
+                                r.getDouble("log_spend_sq_sum"), sum, q[0], q[1], q[2], max));
+                    } else {
+                        arms.add(ArmStats.conversions(name, users, r.getLong("payers")));
+                    }
                 }
-                if (spend != null) {
-                    notFinite += r.getLong("not_finite");
-                    negative += r.getLong("negative");
-                    double[] q = quantiles(r.getArray("payer_quantiles"));
-                    arms.add(new ArmStats(name, users, r.getLong("payers"), r.getDouble("log_spend_sum"),
-                            r.getDouble("log_spend_sq_sum"), r.getDouble("spend_sum"), q[0], q[1], q[2],
-                            r.getDouble("spend_max")));
-                } else {
-                    arms.add(ArmStats.conversions(name, users, r.getLong("payers")));
-                }
+            } catch (SQLException e) {
+                throw Sql.readError(source.name, e);
             }
-        } catch (SQLException e) {
-            throw Sql.readError(source.name, e);
-        }
-        if (rows == 0) {
-            throw new InputException(source.name + ": no data rows" + (source.csv ? " after the header" : ""));
-        }
-        String valueColumn = spend != null ? spend : converted;
-        String cast = spend != null ? "CAST(" + Sql.identifier(spend) + " AS DOUBLE)" : "CAST(" + Sql.identifier(converted) + " AS BOOLEAN)";
-        if (emptyArms > 0) {
-            throw source.bad(db, armExpr + " IS NULL OR " + armExpr + " = ''", arm, emptyArms, "arm is empty");
-        }
-        if (missing > 0) {
-            throw source.bad(db, cast + " IS NULL", valueColumn, missing, "value is empty");
-        }
-        if (notFinite > 0) {
-            throw source.bad(db, "isnan(" + cast + ") OR isinf(" + cast + ")", valueColumn, notFinite,
-                    "spend must be a finite number (NaN or infinity found)");
-        }
-        if (negative > 0) {
-            throw source.bad(db, cast + " < 0", valueColumn, negative, "spend must be >= 0 (0 for users who did not pay)");
+            if (rows == 0) {
+                throw new InputException(source.name + ": no data rows" + (source.csv ? " after the header" : ""));
+            }
+            String valueColumn = spend != null ? spend : converted;
+            String cast = spend != null ? "CAST(" + Sql.identifier(spend) + " AS DOUBLE)"
+                    : "CAST(" + Sql.identifier(converted) + " AS BOOLEAN)";
+            String trimmedArm = "trim(CAST(" + Sql.identifier(arm) + " AS VARCHAR))";
+            if (emptyArms > 0) {
+                throw source.bad(db, trimmedArm + " IS NULL OR " + trimmedArm + " = ''", arm, emptyArms, "arm is empty");
+            }
+            if (missing > 0) {
+                throw source.bad(db, cast + " IS NULL", valueColumn, missing, "value is empty");
+            }
+            if (notFinite) {
+                throw source.bad(db, "isnan(" + cast + ") OR isinf(" + cast + ")", valueColumn,
+                        count(db, source, "isnan(" + cast + ") OR isinf(" + cast + ")"),
+                        "spend must be a finite number (NaN or infinity found)");
+            }
+            if (negative > 0) {
+                throw source.bad(db, cast + " < 0", valueColumn, count(db, source, cast + " < 0"),
+                        "spend must be >= 0 (0 for users who did not pay)");
+            }
+            if (!untrimmed) {
+                break;
+            }
         }
         List<String> warnings = new ArrayList<>();
         String user = source.optionalMapped(data, "user");
@@ -175,6 +165,46 @@ public final class SpendDataReader {
             }
         }
         return new SpendData(arms, spend != null, source.name, rows, warnings, query);
+    }
+
+    /**
+     * The users-layout query: one scan, per arm. Validation rides along: count(spend) below count(*) means
+     * empty cells, a negative minimum means negative spend, a non-finite sum or extreme means NaN or infinity.
+     */
+    static String usersQuery(String armExpr, String spendColumn, String relation) {
+        return """
+                SELECT arm,
+                       count(*) AS users,
+                       count(spend) AS present,
+                       count_if(spend > 0) AS payers,
+                       sum(ln(CASE WHEN spend > 0 THEN spend END)) AS log_spend_sum,
+                       sum(ln(CASE WHEN spend > 0 THEN spend END) ^ 2) AS log_spend_sq_sum,
+                       sum(spend) AS spend_sum,
+                       min(spend) AS spend_min,
+                       max(spend) AS spend_max,
+                       quantile_disc(CASE WHEN spend > 0 THEN spend END, [0.5, 0.9, 0.99]) AS payer_quantiles
+                FROM (SELECT %s AS arm, CAST(%s AS DOUBLE) AS spend FROM %s)
+                GROUP BY arm ORDER BY arm""".formatted(armExpr, spendColumn, relation);
+    }
+
+    static String conversionQuery(String armExpr, String convertedColumn, String relation) {
+        return """
+                SELECT arm,
+                       count(*) AS users,
+                       count(converted) AS present,
+                       count_if(converted) AS payers
+                FROM (SELECT %s AS arm, CAST(%s AS BOOLEAN) AS converted FROM %s)
+                GROUP BY arm ORDER BY arm""".formatted(armExpr, convertedColumn, relation);
+    }
+
+    private static long count(Connection db, Source source, String condition) {
+        try (Statement s = db.createStatement();
+             ResultSet r = s.executeQuery("SELECT count(*) FROM " + source.relation + " WHERE " + condition)) {
+            r.next();
+            return r.getLong(1);
+        } catch (SQLException e) {
+            throw Sql.readError(source.name, e);
+        }
     }
 
     private static double[] quantiles(java.sql.Array array) throws SQLException {

@@ -40,7 +40,7 @@ public final class SpecReader {
             .getSchema(SCHEMA_TREE, SchemaValidatorsConfig.builder().pathType(PathType.JSON_POINTER).build());
 
     /** Most draws a fit may keep in all (chains x draws), so draws fit in memory. */
-    public static final long MAX_KEPT_DRAWS = 4_000_000L;
+    public static final long MAX_KEPT_DRAWS = 1_000_000L;
 
     private SpecReader() {
     }

@@ -202,11 +202,22 @@ public final class SpendAnalysis {
         return out;
     }
 
+    /**
+     * Binomial(n, p) payers: exact inversion (commons-math3) while n min(p, 1 - p) < 1,000; above that the
+     * de Moivre-Laplace normal approximation with continuity correction, whose error there is far below
+     * the resolution of a predictive p-value from 1,000 replications (and exact inversion of a
+     * multi-million-user arm would cost more than the rest of the fit).
+     */
     private static int replicatedPayers(long users, double p, UniformRandomProvider rng) {
         if (users > Integer.MAX_VALUE) {
             throw new IllegalArgumentException("an arm with more than " + Integer.MAX_VALUE + " users");
         }
-        return new BinomialDistribution(null, (int) users, p).inverseCumulativeProbability(rng.nextDouble());
+        double u = rng.nextDouble();
+        if (users * Math.min(p, 1 - p) < 1000) {
+            return new BinomialDistribution(null, (int) users, p).inverseCumulativeProbability(u);
+        }
+        double m = Math.floor(users * p + Math.sqrt(users * p * (1 - p)) * normalQuantile(u) + 0.5);
+        return (int) Math.max(0, Math.min(users, m));
     }
 
     private static double replicatedTotal(int payers, double mu, double sigma, ZigguratSampler.NormalizedGaussian g) {
