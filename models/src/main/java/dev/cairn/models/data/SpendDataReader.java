@@ -177,8 +177,8 @@ public final class SpendDataReader {
                        count(*) AS users,
                        count(spend) AS present,
                        count_if(spend > 0) AS payers,
-                       sum(ln(CASE WHEN spend > 0 THEN spend END)) AS log_spend_sum,
-                       sum(ln(CASE WHEN spend > 0 THEN spend END) ^ 2) AS log_spend_sq_sum,
+                       sum(CASE WHEN spend > 0 THEN ln(spend) ELSE 0 END) AS log_spend_sum,
+                       sum(CASE WHEN spend > 0 THEN ln(spend) ^ 2 ELSE 0 END) AS log_spend_sq_sum,
                        sum(spend) AS spend_sum,
                        min(spend) AS spend_min,
                        max(spend) AS spend_max,
@@ -516,7 +516,7 @@ public final class SpendDataReader {
             List<String> where = new ArrayList<>();
             String position = rowsPointer != null ? "row_index" : "row_number() OVER ()";
             String sql = "SELECT position FROM (SELECT " + position + " AS position, * FROM " + relation
-                    + ") WHERE " + condition.replace("\"", "\"") + " ORDER BY position LIMIT " + SHOW_ROWS;
+                    + ") WHERE " + condition + " ORDER BY position LIMIT " + SHOW_ROWS;
             try (Statement s = db.createStatement()) {
                 s.execute("SET threads = 1"); // file order for row_number(); this path only runs on bad data
                 try (ResultSet r = s.executeQuery(sql)) {
