@@ -39,7 +39,7 @@ final class DemoCommand implements Callable<Integer> {
             fitted = Demo.run(out, FitOptions.DEFAULT, f -> {
                 stdout.println();
                 stdout.println("=== " + f.spec() + " ===");
-                stdout.print(ResultPrinter.spend(f.outcome().result()));
+                stdout.print(ResultPrinter.print(f.outcome().result()));
                 stdout.println("Wrote " + f.folder().resolve("result.json") + " and draws.csv");
                 stdout.flush();
             });

@@ -61,7 +61,7 @@ final class FitCommand implements Callable<Integer> {
         }
         ResultWriter.write(outcome, out);
         if (!quiet) {
-            stdout.print(ResultPrinter.spend(outcome.result()));
+            stdout.print(ResultPrinter.print(outcome.result()));
             stdout.println("\nWrote " + out.resolve(ResultWriter.RESULT) + " and " + out.resolve(ResultWriter.DRAWS));
             stdout.flush();
         }

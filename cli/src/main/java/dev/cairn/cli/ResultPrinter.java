@@ -3,6 +3,8 @@ package dev.cairn.cli;
 import dev.cairn.models.result.ArmSummary;
 import dev.cairn.models.result.Check;
 import dev.cairn.models.result.Comparison;
+import dev.cairn.models.result.FitResult;
+import dev.cairn.models.result.PooledResult;
 import dev.cairn.models.result.Interval;
 import dev.cairn.models.result.Result;
 import java.util.Locale;
@@ -13,8 +15,55 @@ final class ResultPrinter {
     private ResultPrinter() {
     }
 
+    static String print(FitResult r) {
+        if (r instanceof PooledResult pooled) {
+            return pooled(pooled);
+        }
+        return spend((Result) r);
+    }
+
+    static String pooled(PooledResult r) {
+        String level = levelLabel(r.interval());
+        StringBuilder sb = new StringBuilder();
+        if (r.title() != null) {
+            sb.append(r.title()).append('\n');
+        }
+        sb.append(String.format(Locale.ROOT, "pooled-effects: %d estimates from %s; %s sampler, %d chains x %,d draws, seed %d%n",
+                r.effects().size(), r.data().source(), r.run().method(), r.run().chains(), r.run().draws(), r.run().seed()));
+        sb.append(r.converged() ? "Converged (R-hat and ESS checks passed).\n"
+                : "NOT CONVERGED - the numbers below are not to be trusted:\n");
+        if (!r.converged()) {
+            r.diagnostics().reasons().forEach(x -> sb.append("  - ").append(x).append('\n'));
+        }
+        int width = Math.max(6, r.effects().keySet().stream().mapToInt(String::length).max().orElse(6));
+        String row = "%-" + width + "s  %22s  %-30s  %8s%n";
+        sb.append('\n').append(String.format(Locale.ROOT, row, "effect", "as given (+- se)", "pooled: median [lo, hi]", "P(> 0)"));
+        for (Map.Entry<String, Interval> e : r.effects().entrySet()) {
+            PooledResult.Raw raw = r.raw().get(e.getKey());
+            sb.append(String.format(Locale.ROOT, row, e.getKey(),
+                    Numbers.sig(raw.estimate(), 3) + " +- " + Numbers.sig(raw.se(), 3), interval(e.getValue(), 3),
+                    String.format(Locale.ROOT, "%.3f", r.probPositive().get(e.getKey()))));
+        }
+        sb.append(String.format(Locale.ROOT, "%nmu (population mean):    %s%n", interval(r.mu(), 3)));
+        sb.append(String.format(Locale.ROOT, "tau (between-effect sd): %s%n", interval(r.tau(), 3)));
+        sb.append(String.format(Locale.ROOT, "a new effect:            %s  -> informed prior: normal(mean %s, sd %s)%n",
+                interval(r.predictive(), 3), Numbers.sig(r.predictive().mean(), 3), Numbers.sig(r.predictive().sd(), 3)));
+        sb.append("(").append(level).append(" credible intervals: median [lo, hi])\n");
+        if (!r.warnings().isEmpty()) {
+            sb.append("\nWarnings:\n");
+            r.warnings().forEach(w -> sb.append("  ! ").append(w).append('\n'));
+        }
+        sb.append('\n');
+        r.cautions().forEach(c -> sb.append("Note: ").append(c).append('\n'));
+        return sb.toString();
+    }
+
+    static String levelLabel(double interval) {
+        return String.format(Locale.ROOT, "%.4g%%", 100 * interval).replaceFirst("\\.?0+%$", "%");
+    }
+
     static String spend(Result r) {
-        String level = String.format(Locale.ROOT, "%.4g%%", 100 * r.interval()).replaceFirst("\\.?0+%$", "%");
+        String level = levelLabel(r.interval());
         StringBuilder sb = new StringBuilder();
         if (r.title() != null) {
             sb.append(r.title()).append('\n');

@@ -2,6 +2,7 @@ package dev.cairn.models;
 
 import dev.cairn.models.spec.Spec;
 import dev.cairn.models.spec.SpecReader;
+import dev.cairn.models.pooled.PooledFit;
 import dev.cairn.models.spend.SpendFit;
 import java.nio.file.Path;
 
@@ -31,6 +32,7 @@ public final class Cairn {
     public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
         return switch (spec.model()) {
             case "spend" -> SpendFit.fit(spec, baseDir, options);
+            case "pooled-effects" -> PooledFit.fit(spec, baseDir, options);
             default -> throw new InputException("/model: unknown model '" + spec.model() + "'");
         };
     }

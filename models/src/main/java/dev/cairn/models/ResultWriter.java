@@ -3,7 +3,7 @@ package dev.cairn.models;
 import com.fasterxml.jackson.core.JsonGenerator;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.databind.SerializationFeature;
-import dev.cairn.models.result.Result;
+import dev.cairn.models.result.FitResult;
 import dev.cairn.samplers.DrawsCsv;
 import java.io.IOException;
 import java.io.UncheckedIOException;
@@ -28,7 +28,7 @@ public final class ResultWriter {
     private ResultWriter() {
     }
 
-    public static String json(Result result) {
+    public static String json(FitResult result) {
         try {
             return MAPPER.writeValueAsString(result) + "\n";
         } catch (IOException e) {

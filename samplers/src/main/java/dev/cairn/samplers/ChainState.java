@@ -17,6 +17,15 @@ public final class ChainState {
         this.logDensity = evaluate(target, this.point);
     }
 
+    /** A state for {@code target} at the unconstrained point {@code start} (copied), its density evaluated. */
+    public static ChainState of(Target target, double[] start) {
+        if (start.length != target.parameters().size()) {
+            throw new IllegalArgumentException("start has " + start.length + " values, target has "
+                    + target.parameters().size());
+        }
+        return new ChainState(target, start);
+    }
+
     public Target target() {
         return target;
     }

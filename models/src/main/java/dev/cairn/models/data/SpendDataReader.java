@@ -1,27 +1,15 @@
 package dev.cairn.models.data;
 
-import com.fasterxml.jackson.databind.JsonNode;
 import dev.cairn.models.InputException;
 import dev.cairn.models.spec.DataSpec;
-import java.io.BufferedReader;
-import java.io.IOException;
-import java.nio.charset.CharacterCodingException;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.sql.Connection;
 import java.sql.DriverManager;
-import java.sql.PreparedStatement;
 import java.sql.ResultSet;
 import java.sql.SQLException;
 import java.sql.Statement;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
-import java.util.LinkedHashSet;
 import java.util.List;
-import java.util.Locale;
-import java.util.Map;
-import java.util.Set;
 
 /**
  * Builds the spend model's sufficient statistics with the embedded SQL engine (DuckDB): one aggregation
@@ -41,8 +29,6 @@ public final class SpendDataReader {
     static final String PAYERS = "payers";
     static final String LOG_SUM = "log_spend_sum";
     static final String LOG_SQ_SUM = "log_spend_sq_sum";
-    private static final int SHOW_ROWS = 3;
-
     private SpendDataReader() {
     }
 
@@ -58,7 +44,8 @@ public final class SpendDataReader {
             try (Statement s = db.createStatement()) {
                 s.execute("SET preserve_insertion_order = true");
             }
-            Source source = data.rows() != null ? Source.inline(db, data) : Source.file(db, data, baseDir);
+            Source source = data.rows() != null ? Source.inline(db, data, c -> typeOf(c, data))
+                    : Source.file(db, data, baseDir, c -> typeOf(c, data));
             return "summary".equals(data.layout()) ? summary(db, source, data) : users(db, source, data, strict);
         } catch (SQLException e) {
             throw new IllegalStateException("embedded SQL engine failed: " + e.getMessage(), e);
@@ -306,237 +293,21 @@ public final class SpendDataReader {
 
     // ----------------------------------------------------------------------------------------------------
 
-    /** A relation the queries read from, with its column names and how to point at a bad row. */
-    private static final class Source {
-        final String name;
-        final String relation;
-        final List<String> columns;
-        final boolean csv;
-        final String rowsPointer; // for inline rows: "/data/rows"
-
-        private Source(String name, String relation, List<String> columns, boolean csv, String rowsPointer) {
-            this.name = name;
-            this.relation = relation;
-            this.columns = columns;
-            this.csv = csv;
-            this.rowsPointer = rowsPointer;
-        }
-
-        static Source file(Connection db, DataSpec data, Path baseDir) throws SQLException {
-            Path file = baseDir.resolve(data.path()).normalize();
-            String name = data.path();
-            if (!Files.exists(file)) {
-                throw new InputException(name + ": no such file (data.path, resolved to " + file + ")");
-            }
-            if (Files.isDirectory(file)) {
-                throw new InputException(name + ": is a folder, expected a CSV or Parquet file (data.path)");
-            }
-            String lower = file.getFileName().toString().toLowerCase(Locale.ROOT);
-            String quoted = Sql.literal(file.toString());
-            if (lower.endsWith(".parquet") || lower.endsWith(".pq")) {
-                List<String> columns = new ArrayList<>();
-                try (Statement s = db.createStatement();
-                     ResultSet r = s.executeQuery("DESCRIBE SELECT * FROM read_parquet(" + quoted + ")")) {
-                    while (r.next()) {
-                        columns.add(r.getString(1));
-                    }
-                } catch (SQLException e) {
-                    throw new InputException(name + ": not a readable Parquet file: "
-                            + e.getMessage().lines().findFirst().orElse(""));
-                }
-                return new Source(name, "read_parquet(" + quoted + ")", columns, false, null);
-            }
-            if (!lower.endsWith(".csv")) {
-                throw new InputException(name + ": data.path must end in .csv or .parquet");
-            }
-            List<String> header = header(file, name);
-            Map<String, String> types = new LinkedHashMap<>();
-            for (String c : header) {
-                types.put(c, typeOf(c, data));
-            }
-            StringBuilder cols = new StringBuilder("{");
-            for (Map.Entry<String, String> e : types.entrySet()) {
-                if (cols.length() > 1) {
-                    cols.append(", ");
-                }
-                cols.append(Sql.literal(e.getKey())).append(": ").append(Sql.literal(e.getValue()));
-            }
-            cols.append('}');
-            String relation = "read_csv(" + quoted + ", auto_detect = false, header = true, delim = ',', quote = '\"', "
-                    + "escape = '\"', strict_mode = true, null_padding = false, columns = " + cols + ")";
-            return new Source(name, relation, header, true, null);
-        }
-
-        /** The header line's column names (the engine reads the data; this only names the columns). */
-        private static List<String> header(Path file, String name) {
-            String line;
-            try (BufferedReader r = new BufferedReader(new java.io.InputStreamReader(Files.newInputStream(file),
-                    StandardCharsets.UTF_8.newDecoder()))) {
-                line = r.readLine();
-            } catch (CharacterCodingException e) {
-                throw new InputException(name + ": not UTF-8 text");
-            } catch (IOException e) {
-                throw new InputException(name + ": cannot be read (" + e.getMessage() + ")");
-            }
-            if (line == null || line.isBlank()) {
-                throw new InputException(name + ": empty file, expected a header line and data rows");
-            }
-            if (line.startsWith("\uFEFF")) {
-                line = line.substring(1);
-            }
-            List<String> columns = new ArrayList<>();
-            Set<String> seen = new LinkedHashSet<>();
-            for (String cell : line.split(",", -1)) {
-                String c = cell.trim();
-                if (c.length() >= 2 && c.startsWith("\"") && c.endsWith("\"")) {
-                    c = c.substring(1, c.length() - 1).replace("\"\"", "\"");
-                }
-                if (c.isEmpty()) {
-                    throw new InputException(name + ": line 1: column " + (columns.size() + 1) + " has no name");
-                }
-                if (!seen.add(c)) {
-                    throw new InputException(name + ": line 1: column '" + c + "' appears twice");
-                }
-                columns.add(c);
-            }
-            return columns;
-        }
-
-        /** The engine type a CSV column is read as: numbers where the model needs numbers, text otherwise. */
-        private static String typeOf(String column, DataSpec data) {
-            if ("summary".equals(data.layout())) {
-                if (column.equals(data.column(USERS, USERS)) || column.equals(data.column(PAYERS, PAYERS))
-                        || column.equals(data.column("logSpendSum", LOG_SUM)) || column.equals(data.column("logSpendSqSum", LOG_SQ_SUM))) {
-                    return "DOUBLE";
-                }
-                return "VARCHAR";
-            }
-            if (column.equals(data.column(SPEND, SPEND))) {
+    /** The engine type a CSV column is read as: numbers where the model needs numbers, text otherwise. */
+static String typeOf(String column, DataSpec data) {
+        if ("summary".equals(data.layout())) {
+            if (column.equals(data.column(USERS, USERS)) || column.equals(data.column(PAYERS, PAYERS))
+                    || column.equals(data.column("logSpendSum", LOG_SUM)) || column.equals(data.column("logSpendSqSum", LOG_SQ_SUM))) {
                 return "DOUBLE";
-            }
-            if (column.equals(data.column(CONVERTED, CONVERTED)) && !data.mapped(SPEND)) {
-                return "BOOLEAN";
             }
             return "VARCHAR";
         }
-
-        /** Inline rows become a temporary table; each JSON value must have the type its column needs. */
-        static Source inline(Connection db, DataSpec data) throws SQLException {
-            List<JsonNode> rows = data.rows();
-            List<String> columns = new ArrayList<>();
-            for (JsonNode row : rows) {
-                row.fieldNames().forEachRemaining(f -> {
-                    if (!columns.contains(f)) {
-                        columns.add(f);
-                    }
-                });
-            }
-            Map<String, String> types = new LinkedHashMap<>();
-            for (String c : columns) {
-                types.put(c, typeOf(c, data));
-            }
-            StringBuilder ddl = new StringBuilder("CREATE TEMP TABLE inline_rows (");
-            StringBuilder marks = new StringBuilder();
-            int k = 0;
-            for (Map.Entry<String, String> e : types.entrySet()) {
-                ddl.append(k == 0 ? "" : ", ").append(Sql.identifier(e.getKey())).append(' ').append(e.getValue());
-                marks.append(k == 0 ? "?" : ", ?");
-                k++;
-            }
-            ddl.append(", row_index BIGINT)");
-            try (Statement s = db.createStatement()) {
-                s.execute(ddl.toString());
-            }
-            try (PreparedStatement insert = db.prepareStatement("INSERT INTO inline_rows VALUES (" + marks + ", ?)")) {
-                for (int i = 0; i < rows.size(); i++) {
-                    JsonNode row = rows.get(i);
-                    int j = 1;
-                    for (Map.Entry<String, String> e : types.entrySet()) {
-                        JsonNode v = row.get(e.getKey());
-                        String where = "/data/rows/" + i + "/" + e.getKey();
-                        if (v == null || v.isNull()) {
-                            insert.setObject(j++, null);
-                        } else if (e.getValue().equals("DOUBLE")) {
-                            if (!v.isNumber()) {
-                                throw new InputException("spec: " + where + ": expected a number, found " + v);
-                            }
-                            insert.setDouble(j++, v.doubleValue());
-                        } else if (e.getValue().equals("BOOLEAN")) {
-                            if (!(v.isBoolean() || (v.isIntegralNumber() && (v.intValue() == 0 || v.intValue() == 1)))) {
-                                throw new InputException("spec: " + where + ": expected true/false or 1/0, found " + v);
-                            }
-                            insert.setBoolean(j++, v.isBoolean() ? v.booleanValue() : v.intValue() == 1);
-                        } else {
-                            if (!v.isValueNode()) {
-                                throw new InputException("spec: " + where + ": expected a text or number, found " + v);
-                            }
-                            insert.setString(j++, v.asText());
-                        }
-                    }
-                    insert.setLong(j, i);
-                    insert.addBatch();
-                }
-                insert.executeBatch();
-            }
-            return new Source("inline rows", "inline_rows", columns, false, "/data/rows");
+        if (column.equals(data.column(SPEND, SPEND))) {
+            return "DOUBLE";
         }
-
-        String require(DataSpec data, String logical, String defaultName) {
-            String c = data.column(logical, defaultName);
-            if (!columns.contains(c)) {
-                throw new InputException(name + ": missing column '" + c + "'"
-                        + (data.mapped(logical) ? " (data.columns." + logical + ")" : " (or set data.columns." + logical + ")")
-                        + "; columns found: " + String.join(", ", columns));
-            }
-            return c;
+        if (column.equals(data.column(CONVERTED, CONVERTED)) && !data.mapped(SPEND)) {
+            return "BOOLEAN";
         }
-
-        /** The column when present; a column mapped in the spec but absent is an error. */
-        String optional(DataSpec data, String logical, String defaultName) {
-            String c = data.column(logical, defaultName);
-            if (columns.contains(c)) {
-                return c;
-            }
-            if (data.mapped(logical)) {
-                throw new InputException(name + ": missing column '" + c + "' (data.columns." + logical
-                        + "); columns found: " + String.join(", ", columns));
-            }
-            return null;
-        }
-
-        String optionalMapped(DataSpec data, String logical) {
-            return data.mapped(logical) ? optional(data, logical, logical) : null;
-        }
-
-        /**
-         * The error for rows matching {@code condition}: counts them and names the first few by line (files;
-         * the header is line 1) or by JSON pointer (inline rows).
-         */
-        InputException bad(Connection db, String condition, String column, long count, String what) {
-            List<String> where = new ArrayList<>();
-            String position = rowsPointer != null ? "row_index" : "row_number() OVER ()";
-            String sql = "SELECT position FROM (SELECT " + position + " AS position, * FROM " + relation
-                    + ") WHERE " + condition + " ORDER BY position LIMIT " + SHOW_ROWS;
-            try (Statement s = db.createStatement()) {
-                s.execute("SET threads = 1"); // file order for row_number(); this path only runs on bad data
-                try (ResultSet r = s.executeQuery(sql)) {
-                    while (r.next()) {
-                        long p = r.getLong(1);
-                        where.add(rowsPointer != null ? rowsPointer + "/" + p : String.valueOf(csv ? p + 1 : p));
-                    }
-                }
-            } catch (SQLException e) {
-                // Fall back to the count alone.
-            }
-            String place;
-            if (rowsPointer != null) {
-                place = "spec: " + String.join(", ", where) + (count > where.size() ? " and " + (count - where.size()) + " more" : "");
-                return new InputException(place + ", '" + column + "': " + what);
-            }
-            String label = csv ? "line" : "row";
-            place = name + ": " + label + (where.size() == 1 ? " " : "s ") + String.join(", ", where)
-                    + (count > where.size() ? " and " + (count - where.size()) + " more" : "");
-            return new InputException(place + ", column '" + column + "': " + what);
-        }
+        return "VARCHAR";
     }
 }

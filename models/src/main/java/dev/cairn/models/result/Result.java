@@ -6,7 +6,7 @@ import java.util.List;
 import java.util.Map;
 
 /**
- * The result of a fit (result v1; keys are part of the command-line contract).
+ * The result of a spend fit (result v1; keys are part of the command-line contract).
  *
  * @param interval the credible interval mass of every {@link Interval} (lo and hi)
  * @param probBest metric -> arm -> P(arm is the best of all arms on that metric)
@@ -18,7 +18,7 @@ import java.util.Map;
 public record Result(String model, String title, boolean converged, String control, double interval, DataInfo data,
                      Map<String, ArmSummary> arms, List<Comparison> comparisons,
                      Map<String, Map<String, Double>> probBest, List<Check> checks, DiagnosticsSummary diagnostics,
-                     Run run, Object priors, List<String> warnings, List<String> cautions) {
+                     Run run, Object priors, List<String> warnings, List<String> cautions) implements FitResult {
 
     /** Shown with every result (DESIGN: cautions the tool shows). */
     public static final List<String> CAUTIONS = List.of(

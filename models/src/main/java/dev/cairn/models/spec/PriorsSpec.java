@@ -9,7 +9,28 @@ import com.fasterxml.jackson.annotation.JsonInclude;
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record PriorsSpec(BetaPrior payerRate, NigPrior logSpend, NormalPrior logSpendMean,
-                         HalfNormalPrior logSpendSd, HistorySpec fromHistory) {
+                         HalfNormalPrior logSpendSd, HistorySpec fromHistory, MuPrior mu, TauPrior tau) {
+
+    /** Convenience for the spend priors alone. */
+    public PriorsSpec(BetaPrior payerRate, NigPrior logSpend, NormalPrior logSpendMean, HalfNormalPrior logSpendSd,
+                      HistorySpec fromHistory) {
+        this(payerRate, logSpend, logSpendMean, logSpendSd, fromHistory, null, null);
+    }
+
+    /** pooled-effects: the population mean's prior, {@code normal} (mean, sd) or {@code flat}. */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record MuPrior(String family, Double mean, Double sd) {
+    }
+
+    /** pooled-effects: tau's prior, {@code uniform} (lower, upper), {@code half-normal} (sd) or {@code half-cauchy} (scale). */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record TauPrior(String family, Double lower, Double upper, Double sd, Double scale) {
+    }
+
+    /** Whether any spend-model prior is given. */
+    public boolean anySpend() {
+        return payerRate != null || logSpend != null || logSpendMean != null || logSpendSd != null || fromHistory != null;
+    }
 
     @JsonInclude(JsonInclude.Include.NON_NULL)
     public record BetaPrior(String family, double a, double b) {

@@ -33,6 +33,6 @@ public record Spec(
     }
 
     public PriorsSpec priorsOrEmpty() {
-        return priors == null ? new PriorsSpec(null, null, null, null, null) : priors;
+        return priors == null ? new PriorsSpec(null, null, null, null, null, null, null) : priors;
     }
 }

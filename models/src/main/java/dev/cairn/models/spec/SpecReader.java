@@ -172,6 +172,22 @@ public final class SpecReader {
     /** Rules across fields that the schema does not express. */
     private static void checkRules(Spec spec, String origin) {
         PriorsSpec p = spec.priorsOrEmpty();
+        boolean pooled = "pooled-effects".equals(spec.model());
+        if (pooled != "estimates".equals(spec.data().layout())) {
+            throw new InputException(origin + ": /data/layout: model '" + spec.model() + "' "
+                    + (pooled ? "needs layout 'estimates'" : "takes layout 'users' or 'summary', not 'estimates'"));
+        }
+        if (pooled && p.anySpend()) {
+            throw new InputException(origin + ": /priors: pooled-effects takes 'mu' and 'tau' priors only");
+        }
+        if (!pooled && (p.mu() != null || p.tau() != null)) {
+            throw new InputException(origin + ": /priors/" + (p.mu() != null ? "mu" : "tau")
+                    + ": belongs to model 'pooled-effects', not '" + spec.model() + "'");
+        }
+        if (p.tau() != null && "uniform".equals(p.tau().family()) && !(p.tau().upper() > p.tau().lower())) {
+            throw new InputException(origin + ": /priors/tau: upper must be greater than lower, was lower "
+                    + p.tau().lower() + ", upper " + p.tau().upper());
+        }
         if (p.logSpend() != null && p.nonConjugate()) {
             throw new InputException(origin + ": /priors: give either 'logSpend' (conjugate) or 'logSpendMean' and "
                     + "'logSpendSd' (non-conjugate), not both");

@@ -1,9 +1,8 @@
 package dev.cairn.models.spend;
 
-import dev.cairn.diagnostics.Diagnostics;
 import dev.cairn.diagnostics.DiagnosticsReport;
-import dev.cairn.diagnostics.Thresholds;
 import dev.cairn.models.FitOptions;
+import dev.cairn.models.FitSupport;
 import dev.cairn.models.FitOutcome;
 import dev.cairn.models.InputException;
 import dev.cairn.models.Version;
@@ -15,7 +14,6 @@ import dev.cairn.models.result.DataInfo;
 import dev.cairn.models.result.DiagnosticsSummary;
 import dev.cairn.models.result.Result;
 import dev.cairn.models.result.Run;
-import dev.cairn.models.spec.ConvergenceSpec;
 import dev.cairn.models.spec.SamplerSpec;
 import dev.cairn.models.spec.Spec;
 import dev.cairn.samplers.Draws;
@@ -49,11 +47,7 @@ public final class SpendFit {
 
         SamplerSpec s = spec.samplerOrDefault();
         String method = method(s.method(), priors, data);
-        int threads = options.threads() != null ? options.threads()
-                : s.threads() != null ? s.threads()
-                : Math.max(1, Math.min(s.chains(), Runtime.getRuntime().availableProcessors()));
-        RunSettings settings = new RunSettings(s.chains(), method.equals("exact") ? 0 : s.warmup(), s.draws(),
-                method.equals("exact") ? 1 : s.thin(), s.seed(), threads);
+        RunSettings settings = FitSupport.runSettings(spec, options, method.equals("exact"));
 
         Draws draws = method.equals("exact")
                 ? SpendPosterior.exact(data, priors, settings, options.progress(), options.cancellation())
@@ -61,19 +55,14 @@ public final class SpendFit {
                         options.cancellation());
         draws = SpendAnalysis.withDerived(draws, data);
 
-        List<double[][]> columns = new ArrayList<>();
-        for (String name : draws.names()) {
-            columns.add(draws.column(name));
-        }
-        DiagnosticsReport report = Diagnostics.of(draws.names(), columns, thresholds(spec.convergence()));
+        DiagnosticsReport report = FitSupport.diagnose(draws, spec);
 
         double level = spec.interval();
         List<Check> checks = SpendAnalysis.checks(draws, data, RandomStreams.forChain(s.seed(), s.chains()));
         List<String> warnings = new ArrayList<>(data.warnings());
         warnings.addAll(SpendAnalysis.warnings(checks));
         if (!report.converged()) {
-            warnings.add(0, "NOT converged: " + String.join("; ", report.reasons())
-                    + ". Do not use these numbers for decisions; run longer or change the sampler.");
+            warnings.add(0, FitSupport.notConverged(report));
         }
         for (ArmStats a : data.arms()) {
             if (data.hasSpend() && a.payers() == 0) {
@@ -107,13 +96,5 @@ public final class SpendFit {
             }
             default -> requested;
         };
-    }
-
-    static Thresholds thresholds(ConvergenceSpec c) {
-        if (c == null) {
-            return Thresholds.DEFAULT;
-        }
-        return new Thresholds(c.maxRhat() == null ? Thresholds.DEFAULT.maxRhat() : c.maxRhat(),
-                c.minEssPerChain() == null ? Thresholds.DEFAULT.minEssPerChain() : c.minEssPerChain());
     }
 }

@@ -1,0 +1,53 @@
+package dev.cairn.models;
+
+import dev.cairn.diagnostics.Diagnostics;
+import dev.cairn.diagnostics.DiagnosticsReport;
+import dev.cairn.diagnostics.Thresholds;
+import dev.cairn.models.spec.ConvergenceSpec;
+import dev.cairn.models.spec.SamplerSpec;
+import dev.cairn.models.spec.Spec;
+import dev.cairn.samplers.Draws;
+import dev.cairn.samplers.RunSettings;
+import java.util.ArrayList;
+import java.util.List;
+
+/** What every model's fit does the same way: run settings, thresholds, diagnostics of all draws. */
+public final class FitSupport {
+    private FitSupport() {
+    }
+
+    /**
+     * Run settings from the spec; threads from the options, else the spec, else one per chain up to the
+     * processors. Exact sampling has no warmup and no thinning.
+     */
+    public static RunSettings runSettings(Spec spec, FitOptions options, boolean exact) {
+        SamplerSpec s = spec.samplerOrDefault();
+        int threads = options.threads() != null ? options.threads()
+                : s.threads() != null ? s.threads()
+                : Math.max(1, Math.min(s.chains(), Runtime.getRuntime().availableProcessors()));
+        return new RunSettings(s.chains(), exact ? 0 : s.warmup(), s.draws(), exact ? 1 : s.thin(), s.seed(), threads);
+    }
+
+    public static Thresholds thresholds(ConvergenceSpec c) {
+        if (c == null) {
+            return Thresholds.DEFAULT;
+        }
+        return new Thresholds(c.maxRhat() == null ? Thresholds.DEFAULT.maxRhat() : c.maxRhat(),
+                c.minEssPerChain() == null ? Thresholds.DEFAULT.minEssPerChain() : c.minEssPerChain());
+    }
+
+    /** Diagnostics of every column of the draws (parameters and derived quantities). */
+    public static DiagnosticsReport diagnose(Draws draws, Spec spec) {
+        List<double[][]> columns = new ArrayList<>();
+        for (String name : draws.names()) {
+            columns.add(draws.column(name));
+        }
+        return Diagnostics.of(draws.names(), columns, thresholds(spec.convergence()));
+    }
+
+    /** The warning put first in a result that did not converge. */
+    public static String notConverged(DiagnosticsReport report) {
+        return "NOT converged: " + String.join("; ", report.reasons())
+                + ". Do not use these numbers for decisions; run longer or change the sampler.";
+    }
+}

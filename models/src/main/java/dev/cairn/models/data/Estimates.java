@@ -1,0 +1,24 @@
+package dev.cairn.models.data;
+
+import java.util.List;
+
+/**
+ * Effects estimated elsewhere, each with its standard error (layout {@code estimates}: name, estimate, se),
+ * in file order.
+ */
+public record Estimates(List<String> names, double[] estimate, double[] se, String source, String query) {
+    public Estimates {
+        names = List.copyOf(names);
+        estimate = estimate.clone();
+        se = se.clone();
+    }
+
+    public int size() {
+        return names.size();
+    }
+
+    /** Read with DuckDB from a CSV or Parquet file or inline rows; bad rows are refused with their place. */
+    public static Estimates read(dev.cairn.models.spec.DataSpec data, java.nio.file.Path baseDir) {
+        return EstimatesReader.read(data, baseDir);
+    }
+}

@@ -1,0 +1,60 @@
+package dev.cairn.models.pooled;
+
+import com.fasterxml.jackson.annotation.JsonInclude;
+import dev.cairn.models.data.Estimates;
+import dev.cairn.models.spec.PriorsSpec;
+
+/**
+ * Priors of the pooled-effects model, as reported in the result.
+ *
+ * <p>mu: {@code normal} (mean, sd) or {@code flat} (the default; the data identify mu whenever there are
+ * two or more estimates). tau: {@code uniform} (lower, upper), {@code half-normal} (sd) or
+ * {@code half-cauchy} (scale). Default tau prior: half-Cauchy with scale equal to the largest standard
+ * error - weakly informative on the scale of the data, as recommended for hierarchical scales by Gelman
+ * (2006, "Prior distributions for variance parameters in hierarchical models", Bayesian Analysis 1(3));
+ * tying the scale to the noisiest estimate is common practice, not a result.
+ */
+@JsonInclude(JsonInclude.Include.NON_NULL)
+public record PooledPriors(String muFamily, Double muMean, Double muSd, String tauFamily, Double tauLower,
+                           Double tauUpper, Double tauScale, String source) {
+
+    public static PooledPriors of(PriorsSpec p, Estimates data) {
+        String muFamily = "flat";
+        Double muMean = null, muSd = null;
+        if (p.mu() != null && "normal".equals(p.mu().family())) {
+            muFamily = "normal";
+            muMean = p.mu().mean();
+            muSd = p.mu().sd();
+        }
+        double largestSe = 0;
+        for (double s : data.se()) {
+            largestSe = Math.max(largestSe, s);
+        }
+        if (p.tau() == null) {
+            return new PooledPriors(muFamily, muMean, muSd, "half-cauchy", null, null, largestSe,
+                    p.mu() == null ? "default" : "spec (tau: default)");
+        }
+        return switch (p.tau().family()) {
+            case "uniform" -> new PooledPriors(muFamily, muMean, muSd, "uniform", p.tau().lower(), p.tau().upper(), null, "spec");
+            case "half-normal" -> new PooledPriors(muFamily, muMean, muSd, "half-normal", null, null, p.tau().sd(), "spec");
+            default -> new PooledPriors(muFamily, muMean, muSd, "half-cauchy", null, null, p.tau().scale(), "spec");
+        };
+    }
+
+    /** Variance of the normal prior on mu; infinite for the flat prior. */
+    double muVariance() {
+        return muSd == null ? Double.POSITIVE_INFINITY : muSd * muSd;
+    }
+
+    /** log p(tau) up to a constant; -infinity outside the support. */
+    double logTau(double tau) {
+        if (!(tau > 0)) {
+            return Double.NEGATIVE_INFINITY;
+        }
+        return switch (tauFamily) {
+            case "uniform" -> tau >= tauLower && tau <= tauUpper ? 0.0 : Double.NEGATIVE_INFINITY;
+            case "half-normal" -> -0.5 * (tau / tauScale) * (tau / tauScale);
+            default -> -Math.log1p((tau / tauScale) * (tau / tauScale));
+        };
+    }
+}

@@ -1,0 +1,114 @@
+package dev.cairn.models.pooled;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.cairn.diagnostics.Quantiles;
+import dev.cairn.diagnostics.Sbc;
+import dev.cairn.models.data.Estimates;
+import dev.cairn.models.spec.PriorsSpec;
+import dev.cairn.samplers.Cancellation;
+import dev.cairn.samplers.Draws;
+import dev.cairn.samplers.Progress;
+import dev.cairn.samplers.RandomStreams;
+import dev.cairn.samplers.RunSettings;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
+import org.junit.jupiter.api.Test;
+
+/**
+ * Calibration of pooled-effects with simulated data whose truth is known: simulation-based calibration
+ * (Talts et al. 2018) and the coverage and shrinkage an analyst relies on. Reduced by default;
+ * -Pfull-validation runs five times more replications.
+ */
+class PooledCalibrationTest {
+    private static final boolean FULL = "full".equals(System.getProperty("cairn.validation"));
+    private static final int REPLICATIONS = FULL ? 2500 : 500;
+    /** Ten "countries": standard errors from small (big country) to large (small country). */
+    private static final double[] SE = {0.02, 0.03, 0.04, 0.05, 0.07, 0.09, 0.12, 0.15, 0.2, 0.3};
+
+    private static List<String> names() {
+        List<String> n = new ArrayList<>();
+        for (int j = 0; j < SE.length; j++) {
+            n.add("c" + j);
+        }
+        return n;
+    }
+
+    private static PooledPriors priors(Estimates data) {
+        return PooledPriors.of(new PriorsSpec(null, null, null, null, null,
+                new PriorsSpec.MuPrior("normal", 0.0, 0.1), new PriorsSpec.TauPrior("half-normal", null, null, 0.1, null)), data);
+    }
+
+    @Test
+    void simulationBasedCalibration() {
+        UniformRandomProvider rng = RandomStreams.forChain(77, 0);
+        ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
+        Sbc sbc = new Sbc();
+        for (int r = 0; r < REPLICATIONS; r++) {
+            double mu = 0.1 * g.sample();
+            double tau = Math.abs(0.1 * g.sample());
+            double[] theta = new double[SE.length];
+            double[] y = new double[SE.length];
+            for (int j = 0; j < SE.length; j++) {
+                theta[j] = mu + tau * g.sample();
+                y[j] = theta[j] + SE[j] * g.sample();
+            }
+            Estimates data = new Estimates(names(), y, SE, "sbc", "");
+            Draws d = PooledEffectsPosterior.sample(data, priors(data), RunSettings.of(2, 200, 495, r).withThreads(1),
+                    Progress.NONE, new Cancellation());
+            sbc.add("mu", mu, Sbc.thin(d.pooled("mu"), 99));
+            sbc.add("tau", tau, Sbc.thin(d.pooled("tau"), 99));
+            sbc.add("theta[c0]", theta[0], Sbc.thin(d.pooled("effect[c0]"), 99));
+            sbc.add("theta[c9]", theta[9], Sbc.thin(d.pooled("effect[c9]"), 99));
+        }
+        for (Map.Entry<String, Sbc.RankHistogram> e : sbc.histograms(10).entrySet()) {
+            assertTrue(e.getValue().uniformAt(0.001), e.getKey() + ": p = " + e.getValue().pValue() + ", counts "
+                    + java.util.Arrays.toString(e.getValue().counts()));
+        }
+    }
+
+    /**
+     * Countries with a known true lift: over repeated data sets the 90% intervals cover the truth about 90% of
+     * the time; a small country's estimate moves most of the way to the overall lift, a big one's barely moves.
+     */
+    @Test
+    void coverageAndShrinkage() {
+        UniformRandomProvider rng = RandomStreams.forChain(78, 0);
+        ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
+        int replications = REPLICATIONS / 5;
+        int covered = 0, total = 0;
+        double bigShift = 0, smallShift = 0;
+        for (int r = 0; r < replications; r++) {
+            double mu = 0.05, tau = 0.03;
+            double[] theta = new double[SE.length];
+            double[] y = new double[SE.length];
+            for (int j = 0; j < SE.length; j++) {
+                theta[j] = mu + tau * g.sample();
+                y[j] = theta[j] + SE[j] * g.sample();
+            }
+            Estimates data = new Estimates(names(), y, SE, "coverage", "");
+            Draws d = PooledEffectsPosterior.sample(data, priors(data), RunSettings.of(2, 300, 1000, 1000 + r).withThreads(1),
+                    Progress.NONE, new Cancellation());
+            double pooledMean = java.util.Arrays.stream(d.pooled("mu")).average().orElseThrow();
+            for (int j = 0; j < SE.length; j++) {
+                double[] draws = d.pooled("effect[c" + j + "]");
+                double lo = Quantiles.of(draws, 0.05), hi = Quantiles.of(draws, 0.95);
+                covered += theta[j] >= lo && theta[j] <= hi ? 1 : 0;
+                total++;
+            }
+            // Share of the way from the raw estimate to the pooled mean.
+            double big = java.util.Arrays.stream(d.pooled("effect[c0]")).average().orElseThrow();
+            double small = java.util.Arrays.stream(d.pooled("effect[c9]")).average().orElseThrow();
+            bigShift += (y[0] - big) / (y[0] - pooledMean) / replications;
+            smallShift += (y[9] - small) / (y[9] - pooledMean) / replications;
+        }
+        double coverage = (double) covered / total;
+        assertEquals(0.90, coverage, 4 * Math.sqrt(0.09 / total) + 0.01, "coverage of 90% intervals");
+        assertTrue(smallShift > 0.8, "the smallest country moves most of the way to the overall lift: " + smallShift);
+        assertTrue(bigShift < 0.5, "the biggest country keeps most of its own estimate: " + bigShift);
+    }
+}
