@@ -53,26 +53,20 @@ public final class SliceStep implements Step {
 
     /** Per-chain slice state: the current widths and the warmup statistics behind them. */
     public static final class SliceUpdater implements Updater {
-        private static final int MIN_UPDATES_BEFORE_ADAPTING = 10;
-        private static final int MAX_SHRINKS = 10_000;
         private final int[] coordinates;
-        private final double[] width;
-        private final double[] jumpSum;
-        private final long[] jumps;
+        private final Slice.Widths widths;
         private final int maxStepsOut;
+        private final double[] result = new double[2];
 
         SliceUpdater(int[] coordinates, double initialWidth, int maxStepsOut) {
             this.coordinates = coordinates;
             this.maxStepsOut = maxStepsOut;
-            this.width = new double[coordinates.length];
-            java.util.Arrays.fill(width, initialWidth);
-            this.jumpSum = new double[coordinates.length];
-            this.jumps = new long[coordinates.length];
+            this.widths = new Slice.Widths(coordinates.length, initialWidth);
         }
 
         /** The current width of the k-th coordinate this updater moves. */
         public double width(int k) {
-            return width[k];
+            return widths.get(k);
         }
 
         @Override
@@ -82,52 +76,11 @@ public final class SliceStep implements Step {
             for (int k = 0; k < coordinates.length; k++) {
                 int i = coordinates[k];
                 double x0 = x[i];
-                double w = width[k];
-                double level = state.logDensity() + Math.log(rng.nextDouble()); // f(x0) - Exp(1)
-
-                double left = x0 - w * rng.nextDouble();
-                double right = left + w;
-                int stepsLeft = (int) (maxStepsOut * rng.nextDouble());
-                int stepsRight = maxStepsOut - 1 - stepsLeft;
-                while (stepsLeft > 0 && densityAt(target, x, i, left) > level) {
-                    left -= w;
-                    stepsLeft--;
-                }
-                while (stepsRight > 0 && densityAt(target, x, i, right) > level) {
-                    right += w;
-                    stepsRight--;
-                }
-
-                double x1;
-                double f1;
-                int shrinks = 0;
-                while (true) {
-                    x1 = left + rng.nextDouble() * (right - left);
-                    f1 = densityAt(target, x, i, x1);
-                    if (f1 > level) {
-                        break;
-                    }
-                    if (x1 < x0) {
-                        left = x1;
-                    } else {
-                        right = x1;
-                    }
-                    if (++shrinks > MAX_SHRINKS || right - left <= Math.ulp(x0)) {
-                        // The slice has collapsed onto x0: the density is degenerate here. Stay put.
-                        x1 = x0;
-                        f1 = state.logDensity();
-                        break;
-                    }
-                }
-                x[i] = x1;
-                state.accept(f1);
-                if (adapt) {
-                    jumpSum[k] += Math.abs(x1 - x0);
-                    jumps[k]++;
-                    if (jumps[k] >= MIN_UPDATES_BEFORE_ADAPTING && jumpSum[k] > 0) {
-                        width[k] = 2.0 * jumpSum[k] / jumps[k];
-                    }
-                }
+                Slice.sample(v -> densityAt(target, x, i, v), x0, state.logDensity(), widths.get(k), maxStepsOut, rng,
+                        result);
+                x[i] = result[0];
+                state.accept(result[1]);
+                widths.record(k, result[0] - x0, adapt);
             }
         }
 

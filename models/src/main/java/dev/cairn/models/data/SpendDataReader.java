@@ -23,6 +23,7 @@ import java.util.List;
  */
 public final class SpendDataReader {
     static final String ARM = "arm";
+    static final String SEGMENT = "segment";
     static final String SPEND = "spend";
     static final String CONVERTED = "converted";
     static final String USERS = "users";
@@ -40,13 +41,35 @@ public final class SpendDataReader {
      * @param strict  whether warnings (duplicate user ids) are errors
      */
     public static SpendData read(DataSpec data, Path baseDir, boolean strict) {
+        Cells c = cells(data, baseDir, strict, false);
+        return new SpendData(c.stats, c.hasSpend, c.source, c.rows, c.warnings, c.query);
+    }
+
+    /** Statistics per (segment, arm) cell, for the segmented model: {@code data.columns.segment} names the column. */
+    public static SegmentedSpendData readSegmented(DataSpec data, Path baseDir, boolean strict) {
+        Cells c = cells(data, baseDir, strict, true);
+        List<SegmentedSpendData.Cell> cells = new ArrayList<>();
+        for (int i = 0; i < c.stats.size(); i++) {
+            cells.add(new SegmentedSpendData.Cell(c.segments.get(i), c.stats.get(i)));
+        }
+        return new SegmentedSpendData(cells, c.hasSpend, c.source, c.rows, c.warnings, c.query);
+    }
+
+    /** What a layout's query gave: per cell its segment (null when not segmented) and statistics. */
+    private record Cells(List<String> segments, List<ArmStats> stats, boolean hasSpend, String source, long rows,
+                         List<String> warnings, String query) {
+    }
+
+    private static Cells cells(DataSpec data, Path baseDir, boolean strict, boolean segmented) {
         try (Connection db = DriverManager.getConnection("jdbc:duckdb:")) {
             try (Statement s = db.createStatement()) {
                 s.execute("SET preserve_insertion_order = true");
             }
             Source source = data.rows() != null ? Source.inline(db, data, c -> typeOf(c, data))
                     : Source.file(db, data, baseDir, c -> typeOf(c, data));
-            return "summary".equals(data.layout()) ? summary(db, source, data) : users(db, source, data, strict);
+            String segment = segmented ? source.require(data, SEGMENT, SEGMENT) : null;
+            return "summary".equals(data.layout()) ? summary(db, source, data, segment)
+                    : users(db, source, data, strict, segment);
         } catch (SQLException e) {
             throw new IllegalStateException("embedded SQL engine failed: " + e.getMessage(), e);
         }
@@ -55,7 +78,10 @@ public final class SpendDataReader {
     // ----------------------------------------------------------------------------------------------------
     // users layout
 
-    private static SpendData users(Connection db, Source source, DataSpec data, boolean strict) throws SQLException {
+    private static Cells users(Connection db, Source source, DataSpec data, boolean strict, String segment)
+            throws SQLException {
+        String segmentExpr = segment == null ? null : "trim(CAST(" + Sql.identifier(segment) + " AS VARCHAR))";
+        List<String> segments = new ArrayList<>();
         String arm = source.require(data, ARM, ARM);
         String spend = source.optional(data, SPEND, SPEND);
         String converted = spend == null ? source.optional(data, CONVERTED, CONVERTED) : null;
@@ -72,9 +98,11 @@ public final class SpendDataReader {
         for (boolean trim : new boolean[] {false, true}) {
             String armExpr = trim ? "trim(CAST(" + Sql.identifier(arm) + " AS VARCHAR))"
                     : "CAST(" + Sql.identifier(arm) + " AS VARCHAR)";
-            query = spend != null ? usersQuery(armExpr, Sql.identifier(spend), source.relation)
-                    : conversionQuery(armExpr, Sql.identifier(converted), source.relation);
+            query = spend != null ? usersQuery(armExpr, Sql.identifier(spend), source.relation, segmentExpr)
+                    : conversionQuery(armExpr, Sql.identifier(converted), source.relation, segmentExpr);
             arms = new ArrayList<>();
+            segments.clear();
+            long emptySegments = 0;
             rows = 0;
             boolean untrimmed = false;
             long missing = 0, emptyArms = 0, negative = 0;
@@ -88,6 +116,16 @@ public final class SpendDataReader {
                     if (name == null || name.isBlank()) {
                         emptyArms += users;
                         continue;
+                    }
+                    if (segmentExpr != null) {
+                        String seg = r.getString("segment");
+                        if (seg == null || seg.isEmpty()) {
+                            emptySegments += users;
+                            continue;
+                        }
+                        segments.add(seg);
+                    } else {
+                        segments.add(null);
                     }
                     untrimmed |= !name.equals(name.strip());
                     if (spend != null) {
@@ -116,6 +154,10 @@ public final class SpendDataReader {
             String trimmedArm = "trim(CAST(" + Sql.identifier(arm) + " AS VARCHAR))";
             if (emptyArms > 0) {
                 throw source.bad(db, trimmedArm + " IS NULL OR " + trimmedArm + " = ''", arm, emptyArms, "arm is empty");
+            }
+            if (emptySegments > 0) {
+                throw source.bad(db, segmentExpr + " IS NULL OR " + segmentExpr + " = ''", segment, emptySegments,
+                        "segment is empty");
             }
             if (missing > 0) {
                 throw source.bad(db, cast + " IS NULL", valueColumn, missing, "value is empty");
@@ -151,15 +193,15 @@ public final class SpendDataReader {
                 warnings.add(message);
             }
         }
-        return new SpendData(arms, spend != null, source.name, rows, warnings, query);
+        return new Cells(segments, arms, spend != null, source.name, rows, warnings, query);
     }
 
     /**
      * The users-layout query: one scan, per arm. Validation rides along: count(spend) below count(*) means
      * empty cells, a negative minimum means negative spend, a non-finite sum or extreme means NaN or infinity.
      */
-    static String usersQuery(String armExpr, String spendColumn, String relation) {
-        return """
+    static String usersQuery(String armExpr, String spendColumn, String relation, String segmentExpr) {
+        return segmented("""
                 SELECT arm,
                        count(*) AS users,
                        count(spend) AS present,
@@ -171,17 +213,27 @@ public final class SpendDataReader {
                        max(spend) AS spend_max,
                        quantile_disc(CASE WHEN spend > 0 THEN spend END, [0.5, 0.9, 0.99]) AS payer_quantiles
                 FROM (SELECT %s AS arm, CAST(%s AS DOUBLE) AS spend FROM %s)
-                GROUP BY arm ORDER BY arm""".formatted(armExpr, spendColumn, relation);
+                GROUP BY arm ORDER BY arm""".formatted(armExpr, spendColumn, relation), segmentExpr);
     }
 
-    static String conversionQuery(String armExpr, String convertedColumn, String relation) {
-        return """
+    /** The same query grouped by segment too (segment first), when a segment expression is given. */
+    static String segmented(String query, String segmentExpr) {
+        if (segmentExpr == null) {
+            return query;
+        }
+        return query.replaceFirst("SELECT arm,", "SELECT segment, arm,")
+                .replaceFirst("\\(SELECT ", "(SELECT " + java.util.regex.Matcher.quoteReplacement(segmentExpr) + " AS segment, ")
+                .replace("GROUP BY arm ORDER BY arm", "GROUP BY segment, arm ORDER BY segment, arm");
+    }
+
+    static String conversionQuery(String armExpr, String convertedColumn, String relation, String segmentExpr) {
+        return segmented("""
                 SELECT arm,
                        count(*) AS users,
                        count(converted) AS present,
                        count_if(converted) AS payers
                 FROM (SELECT %s AS arm, CAST(%s AS BOOLEAN) AS converted FROM %s)
-                GROUP BY arm ORDER BY arm""".formatted(armExpr, convertedColumn, relation);
+                GROUP BY arm ORDER BY arm""".formatted(armExpr, convertedColumn, relation), segmentExpr);
     }
 
     private static long count(Connection db, Source source, String condition) {
@@ -209,7 +261,9 @@ public final class SpendDataReader {
     // ----------------------------------------------------------------------------------------------------
     // summary layout
 
-    private static SpendData summary(Connection db, Source source, DataSpec data) throws SQLException {
+    private static Cells summary(Connection db, Source source, DataSpec data, String segment) throws SQLException {
+        String segmentExpr = segment == null ? null : "trim(CAST(" + Sql.identifier(segment) + " AS VARCHAR))";
+        List<String> segments = new ArrayList<>();
         String arm = source.require(data, ARM, ARM);
         String users = source.require(data, USERS, USERS);
         String payers = source.require(data, PAYERS, PAYERS);
@@ -229,6 +283,7 @@ public final class SpendDataReader {
         // Row checks first: summary tables are small, and a bad row must be named, not summed away.
         String[][] rules = {
             {armExpr + " IS NULL OR " + armExpr + " = ''", arm, "arm is empty"},
+            {segmentExpr == null ? "false" : segmentExpr + " IS NULL OR " + segmentExpr + " = ''", segment, "segment is empty"},
             {n + " IS NULL OR " + m + " IS NULL", users + "/" + payers, "users and payers must be given"},
             {"isnan(" + n + ") OR isinf(" + n + ") OR " + n + " <> floor(" + n + ")", users,
                 "users must be a whole number"},
@@ -271,12 +326,14 @@ public final class SpendDataReader {
                              coalesce(%s, 0.0) AS log_spend_sum,
                              coalesce(%s, 0.0) AS log_spend_sq_sum FROM %s)
                 GROUP BY arm ORDER BY arm""".formatted(armExpr, n, m, a, b, source.relation);
+        query = segmented(query, segmentExpr);
         List<ArmStats> arms = new ArrayList<>();
         long rows = 0;
         try (Statement s = db.createStatement(); ResultSet r = s.executeQuery(query)) {
             while (r.next()) {
                 rows++;
                 String name = r.getString("arm");
+                segments.add(segmentExpr == null ? null : r.getString("segment"));
                 arms.add(hasSpend
                         ? ArmStats.summary(name, r.getLong("users"), r.getLong("payers"), r.getDouble("log_spend_sum"),
                                 r.getDouble("log_spend_sq_sum"))
@@ -288,7 +345,7 @@ public final class SpendDataReader {
         if (rows == 0) {
             throw new InputException(source.name + ": no data rows" + (source.csv ? " after the header" : ""));
         }
-        return new SpendData(arms, hasSpend, source.name, rows, List.of(), query);
+        return new Cells(segments, arms, hasSpend, source.name, rows, List.of(), query);
     }
 
     // ----------------------------------------------------------------------------------------------------

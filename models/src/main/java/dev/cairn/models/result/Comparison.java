@@ -1,10 +1,27 @@
 package dev.cairn.models.result;
 
+import com.fasterxml.jackson.annotation.JsonInclude;
+
 /**
  * One arm against the control on one metric, draw by draw: lift = arm / control - 1, difference =
  * arm - control, probAbove = P(arm > control), expectedLoss = E[max(control - arm, 0)] (what shipping
  * the arm costs per user, in the metric's unit, in the draws where it is worse).
+ *
+ * @param scope   segmented-spend only: "population" (user-weighted over segments) or "typical-segment"
+ *                for the overall comparisons, absent for per-segment ones
+ * @param rawLift segmented-spend only: the lift from the segment's own data alone (no pooling), so the
+ *                shrinkage shows; absent when the data cannot give one (no payers, a missing arm)
  */
+@JsonInclude(JsonInclude.Include.NON_NULL)
 public record Comparison(String arm, String control, String metric, Interval lift, Interval difference,
-                         double probAbove, double expectedLoss) {
+                         double probAbove, double expectedLoss, String scope, Double rawLift) {
+
+    public Comparison(String arm, String control, String metric, Interval lift, Interval difference,
+                      double probAbove, double expectedLoss) {
+        this(arm, control, metric, lift, difference, probAbove, expectedLoss, null, null);
+    }
+
+    public Comparison withScope(String s, Double raw) {
+        return new Comparison(arm, control, metric, lift, difference, probAbove, expectedLoss, s, raw);
+    }
 }

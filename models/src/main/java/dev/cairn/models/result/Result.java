@@ -9,14 +9,16 @@ import java.util.Map;
  * The result of a spend fit (result v1; keys are part of the command-line contract).
  *
  * @param interval the credible interval mass of every {@link Interval} (lo and hi)
+ * @param segments segmented-spend only: per segment, its arms and comparisons (pooled, with raw lifts)
  * @param probBest metric -> arm -> P(arm is the best of all arms on that metric)
  * @param priors   the priors used (defaults included), for the record
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
-@JsonPropertyOrder({"model", "title", "converged", "control", "interval", "data", "arms", "comparisons", "probBest", "checks",
+@JsonPropertyOrder({"model", "title", "converged", "control", "interval", "data", "arms", "comparisons", "segments",
+    "probBest", "checks",
     "diagnostics", "run", "priors", "warnings", "cautions"})
 public record Result(String model, String title, boolean converged, String control, double interval, DataInfo data,
-                     Map<String, ArmSummary> arms, List<Comparison> comparisons,
+                     Map<String, ArmSummary> arms, List<Comparison> comparisons, Map<String, SegmentSummary> segments,
                      Map<String, Map<String, Double>> probBest, List<Check> checks, DiagnosticsSummary diagnostics,
                      Run run, Object priors, List<String> warnings, List<String> cautions) implements FitResult {
 

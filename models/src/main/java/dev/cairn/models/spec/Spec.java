@@ -18,7 +18,8 @@ public record Spec(
         SamplerSpec sampler,
         DecisionSpec decision,
         ConvergenceSpec convergence,
-        Boolean strict) {
+        Boolean strict,
+        String parameterisation) {
 
     public SamplerSpec samplerOrDefault() {
         return sampler == null ? SamplerSpec.DEFAULT : sampler.withDefaults();

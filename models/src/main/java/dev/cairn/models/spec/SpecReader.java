@@ -180,6 +180,13 @@ public final class SpecReader {
         if (pooled && p.anySpend()) {
             throw new InputException(origin + ": /priors: pooled-effects takes 'mu' and 'tau' priors only");
         }
+        if (spec.parameterisation() != null && !"segmented-spend".equals(spec.model())) {
+            throw new InputException(origin + ": /parameterisation: applies to model 'segmented-spend' only");
+        }
+        if ("segmented-spend".equals(spec.model()) && p.anySpend()) {
+            throw new InputException(origin + ": /priors: segmented-spend uses its own documented hierarchical "
+                    + "priors; remove the spend priors");
+        }
         if (!pooled && (p.mu() != null || p.tau() != null)) {
             throw new InputException(origin + ": /priors/" + (p.mu() != null ? "mu" : "tau")
                     + ": belongs to model 'pooled-effects', not '" + spec.model() + "'");

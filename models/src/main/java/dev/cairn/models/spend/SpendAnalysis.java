@@ -83,7 +83,7 @@ public final class SpendAnalysis {
         return out;
     }
 
-    static Comparison compare(String arm, String control, String metric, double[] x, double[] c, double level) {
+    public static Comparison compare(String arm, String control, String metric, double[] x, double[] c, double level) {
         double[] lift = new double[x.length];
         double[] difference = new double[x.length];
         double above = 0;

@@ -74,7 +74,7 @@ public final class SpendFit {
         Result result = new Result("spend", spec.title(), report.converged(), control, level,
                 new DataInfo(data.source(), spec.data().layout(), data.rows(), users, data.query()),
                 SpendAnalysis.arms(draws, data, level),
-                SpendAnalysis.comparisons(draws, data, control, level),
+                SpendAnalysis.comparisons(draws, data, control, level), null,
                 SpendAnalysis.probBest(draws, data),
                 checks, DiagnosticsSummary.of(report),
                 new Run(method, settings.chains(), settings.warmup(), settings.draws(), settings.thin(), settings.seed(),

@@ -1,0 +1,236 @@
+package dev.cairn.models.segmented;
+
+import dev.cairn.diagnostics.DiagnosticsReport;
+import dev.cairn.models.FitOptions;
+import dev.cairn.models.FitOutcome;
+import dev.cairn.models.FitSupport;
+import dev.cairn.models.InputException;
+import dev.cairn.models.Version;
+import dev.cairn.models.data.ArmStats;
+import dev.cairn.models.data.SegmentedSpendData;
+import dev.cairn.models.data.SpendDataReader;
+import dev.cairn.models.result.ArmSummary;
+import dev.cairn.models.result.Comparison;
+import dev.cairn.models.result.DataInfo;
+import dev.cairn.models.result.DiagnosticsSummary;
+import dev.cairn.models.result.Interval;
+import dev.cairn.models.result.Result;
+import dev.cairn.models.result.Run;
+import dev.cairn.models.result.SegmentSummary;
+import dev.cairn.models.spec.Spec;
+import dev.cairn.models.spend.SpendAnalysis;
+import dev.cairn.samplers.Draws;
+import dev.cairn.samplers.RunSettings;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+
+/** A segmented-spend fit: per-segment cells pooled hierarchically, with overall and per-segment decisions. */
+public final class SegmentedFit {
+    /** A segment with fewer payers than this (all arms together) carries little information. */
+    static final int SMALL_SEGMENT_PAYERS = 30;
+
+    private SegmentedFit() {
+    }
+
+    public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
+        long start = System.nanoTime();
+        SegmentedSpendData data = SpendDataReader.readSegmented(spec.data(), baseDir, spec.isStrict());
+        List<String> arms = data.arms();
+        List<String> segments = data.segments();
+        if (arms.size() < 2) {
+            throw new InputException(data.source() + ": found " + arms.size() + " arm (" + String.join(", ", arms)
+                    + "); a comparison needs at least two");
+        }
+        String control = spec.control() == null ? arms.get(0) : spec.control();
+        if (!arms.contains(control)) {
+            throw new InputException("/control: arm '" + control + "' is not in the data; arms found: "
+                    + String.join(", ", arms));
+        }
+        if ("exact".equals(spec.samplerOrDefault().method())) {
+            throw new InputException("/sampler/method: segmented-spend has no closed-form posterior; use 'auto'");
+        }
+        String[] choice = parameterisation(spec.parameterisation(), data, segments);
+        boolean levelsNc = choice[0].equals("non-centred");
+        boolean effectsNc = !"centred".equals(spec.parameterisation());
+        SegmentedPosterior model = new SegmentedPosterior(data, control, levelsNc, effectsNc);
+        RunSettings settings = FitSupport.runSettings(spec, options, false);
+        Draws internal = model.sample(settings, options.progress(), options.cancellation());
+
+        long total = 0;
+        double[] weights = new double[segments.size()];
+        for (int j = 0; j < segments.size(); j++) {
+            for (String a : arms) {
+                ArmStats c = data.cell(segments.get(j), a);
+                weights[j] += c == null ? 0 : c.users();
+            }
+            total += (long) weights[j];
+        }
+        for (int j = 0; j < weights.length; j++) {
+            weights[j] /= total;
+        }
+        Draws draws = SegmentedOutputs.of(internal, model, segments, arms, weights);
+        DiagnosticsReport report = FitSupport.diagnose(draws, spec);
+        double level = spec.interval();
+        List<String> metrics = data.hasSpend() ? List.of("arpu", "payerRate", "arppu") : List.of("payerRate");
+
+        Map<String, long[]> totals = data.armTotals();
+        Map<String, ArmSummary> overall = new LinkedHashMap<>();
+        for (String a : arms) {
+            overall.put(a, summary(draws, SegmentedOutputs.POPULATION, a, totals.get(a)[0], totals.get(a)[1], data, level));
+        }
+        List<Comparison> comparisons = new ArrayList<>();
+        for (String scope : new String[] {SegmentedOutputs.POPULATION, SegmentedOutputs.TYPICAL}) {
+            for (String a : arms) {
+                if (a.equals(control)) {
+                    continue;
+                }
+                for (String metric : metrics) {
+                    comparisons.add(SpendAnalysis.compare(a, control, metric,
+                            draws.pooled(SegmentedOutputs.cell(metric, scope, a)),
+                            draws.pooled(SegmentedOutputs.cell(metric, scope, control)), level)
+                            .withScope(scope.equals(SegmentedOutputs.TYPICAL) ? "typical-segment" : "population", null));
+                }
+            }
+        }
+        Map<String, SegmentSummary> perSegment = new LinkedHashMap<>();
+        List<String> warnings = new ArrayList<>(data.warnings());
+        for (String seg : segments) {
+            Map<String, ArmSummary> cells = new LinkedHashMap<>();
+            List<String> notes = new ArrayList<>();
+            long users = 0;
+            for (String a : arms) {
+                ArmStats c = data.cell(seg, a);
+                users += c == null ? 0 : c.users();
+                if (c == null) {
+                    notes.add("no users in arm " + a + ": its estimates come from the pooling alone");
+                } else if (data.hasSpend() && c.payers() == 0) {
+                    notes.add("no payers in arm " + a + ": its spend per payer comes from the pooling alone");
+                } else if (c.users() == 1) {
+                    notes.add("a single user in arm " + a);
+                }
+                cells.put(a, summary(draws, seg, a, c == null ? 0 : c.users(), c == null ? 0 : c.payers(), data, level));
+            }
+            List<Comparison> segComparisons = new ArrayList<>();
+            for (String a : arms) {
+                if (a.equals(control)) {
+                    continue;
+                }
+                for (String metric : metrics) {
+                    segComparisons.add(SpendAnalysis.compare(a, control, metric,
+                            draws.pooled(SegmentedOutputs.cell(metric, seg, a)),
+                            draws.pooled(SegmentedOutputs.cell(metric, seg, control)), level)
+                            .withScope(null, rawLift(metric, data.cell(seg, a), data.cell(seg, control))));
+                }
+            }
+            perSegment.put(seg, new SegmentSummary(users, cells, segComparisons, notes.isEmpty() ? null : notes));
+        }
+        if (!report.converged()) {
+            warnings.add(0, FitSupport.notConverged(report)
+                    + (levelsNc ? "" : " If many segments are small, try \"parameterisation\": \"non-centred\"."));
+        }
+        Map<String, Map<String, Double>> probBest = new LinkedHashMap<>();
+        for (String metric : metrics) {
+            probBest.put(metric, probBest(draws, metric, arms));
+        }
+        double seconds = Math.round((System.nanoTime() - start) / 1e6) / 1e3;
+        Result result = new Result("segmented-spend", spec.title(), report.converged(), control, level,
+                new DataInfo(data.source(), spec.data().layout(), data.rows(), total, data.query()), overall,
+                comparisons, perSegment, probBest, List.of(), DiagnosticsSummary.of(report),
+                new Run("metropolis-within-gibbs", settings.chains(), settings.warmup(), settings.draws(),
+                        settings.thin(), settings.seed(), seconds, Version.get(),
+                        "segment levels " + choice[0] + ", arm effects " + (effectsNc ? "non-centred" : "centred")
+                                + " (" + choice[1] + ")"),
+                Map.of("hyperpriors", "documented in SegmentedPosterior: alpha0 ~ N(-3, 2^2); D, E ~ N(0, 1); "
+                        + "beta0 ~ N(0, 5^2); s0 ~ N(0, 1); tauAlpha, tauBeta ~ half-N(1); tauD, tauE, tauS ~ half-N(0.5)"),
+                warnings, Result.CAUTIONS);
+        return new FitOutcome(result, draws);
+    }
+
+    /**
+     * {choice for the segment levels, reason}: non-centred when more than half of the segments have few
+     * payers. Arm effects are non-centred unless the spec asks for "centred": effects of one arm usually
+     * differ little between segments, and a small between-segment sd is the funnel non-centring removes.
+     */
+    static String[] parameterisation(String requested, SegmentedSpendData data, List<String> segments) {
+        if (requested != null && !requested.equals("auto")) {
+            return new String[] {requested, "as the spec asks"};
+        }
+        int small = 0;
+        for (String seg : segments) {
+            long payers = 0;
+            for (String a : data.arms()) {
+                ArmStats c = data.cell(seg, a);
+                payers += c == null ? 0 : c.payers();
+            }
+            small += payers < SMALL_SEGMENT_PAYERS ? 1 : 0;
+        }
+        String reason = String.format(Locale.ROOT, "%d of %d segments have fewer than %d payers", small,
+                segments.size(), SMALL_SEGMENT_PAYERS);
+        return new String[] {2 * small > segments.size() ? "non-centred" : "centred", "auto: " + reason};
+    }
+
+    private static ArmSummary summary(Draws draws, String scope, String arm, long users, long payers,
+                                      SegmentedSpendData data, double level) {
+        Interval rate = Interval.of(draws.pooled(SegmentedOutputs.cell("payerRate", scope, arm)), level);
+        if (!data.hasSpend()) {
+            return new ArmSummary(users, payers, null, rate, null);
+        }
+        return new ArmSummary(users, payers, Interval.of(draws.pooled(SegmentedOutputs.cell("arpu", scope, arm)), level),
+                rate, Interval.of(draws.pooled(SegmentedOutputs.cell("arppu", scope, arm)), level));
+    }
+
+    /**
+     * The lift from the segment's own data: payer rate m/n; ARPPU spend / payers (or, from a summary, the
+     * lognormal plug-in exp(ybar + s^2/2)); ARPU = payer rate x ARPPU. Null when either side has none.
+     */
+    static Double rawLift(String metric, ArmStats arm, ArmStats control) {
+        double a = raw(metric, arm), c = raw(metric, control);
+        return Double.isFinite(a) && Double.isFinite(c) && c > 0 ? a / c - 1 : null;
+    }
+
+    private static double raw(String metric, ArmStats s) {
+        if (s == null || s.users() == 0) {
+            return Double.NaN;
+        }
+        double rate = (double) s.payers() / s.users();
+        if (metric.equals("payerRate")) {
+            return rate;
+        }
+        double arppu;
+        if (!Double.isNaN(s.spendSum())) {
+            arppu = s.payers() == 0 ? Double.NaN : s.spendSum() / s.payers();
+        } else if (s.payers() >= 2) {
+            double v = s.logSpendSquaredDeviations() / (s.payers() - 1);
+            arppu = Math.exp(s.meanLogSpend() + v / 2);
+        } else {
+            arppu = Double.NaN;
+        }
+        return metric.equals("arppu") ? arppu : rate * arppu;
+    }
+
+    private static Map<String, Double> probBest(Draws draws, String metric, List<String> arms) {
+        double[][] values = new double[arms.size()][];
+        for (int k = 0; k < arms.size(); k++) {
+            values[k] = draws.pooled(SegmentedOutputs.cell(metric, SegmentedOutputs.POPULATION, arms.get(k)));
+        }
+        long[] best = new long[arms.size()];
+        for (int i = 0; i < values[0].length; i++) {
+            int argmax = 0;
+            for (int k = 1; k < arms.size(); k++) {
+                if (values[k][i] > values[argmax][i]) {
+                    argmax = k;
+                }
+            }
+            best[argmax]++;
+        }
+        Map<String, Double> out = new LinkedHashMap<>();
+        for (int k = 0; k < arms.size(); k++) {
+            out.put(arms.get(k), (double) best[k] / values[0].length);
+        }
+        return out;
+    }
+}
