@@ -68,9 +68,13 @@ final class ResultPrinter {
         if (r.title() != null) {
             sb.append(r.title()).append('\n');
         }
-        sb.append(String.format(Locale.ROOT, "%s: %,d users in %d arms from %s; %s sampler, %d chains x %,d draws, seed %d%n",
-                r.model(), r.data().users(), r.arms().size(), r.data().source(), r.run().method(), r.run().chains(),
-                r.run().draws(), r.run().seed()));
+        sb.append(String.format(Locale.ROOT, "%s: %,d users in %d arms%s from %s; %s sampler, %d chains x %,d draws, seed %d%n",
+                r.model(), r.data().users(), r.arms().size(),
+                r.segments() == null ? "" : String.format(Locale.ROOT, " and %d segments", r.segments().size()),
+                r.data().source(), r.run().method(), r.run().chains(), r.run().draws(), r.run().seed()));
+        if (r.run().parameterisation() != null) {
+            sb.append("Parameterisation: ").append(r.run().parameterisation()).append('\n');
+        }
         sb.append(r.converged() ? "Converged (R-hat and ESS checks passed).\n"
                 : "NOT CONVERGED - the numbers below are not to be trusted:\n");
         if (!r.converged()) {
@@ -99,14 +103,22 @@ final class ResultPrinter {
         }
         sb.append("(* control; intervals are ").append(level).append(" credible intervals: median [lo, hi])\n\n");
 
+        if (r.segments() != null) {
+            sb.append("Overall rows are the population (segments weighted by users); comparisons marked typical are for "
+                    + "a typical segment.\n\n");
+        }
         sb.append("Against ").append(r.control()).append(":\n");
-        String row = "  %-" + width + "s  %-10s  %-28s  %11s  %14s%n";
+        String row = "  %-" + (width + 10) + "s  %-10s  %-28s  %11s  %14s%n";
         sb.append(String.format(Locale.ROOT, row, "arm", "metric", "lift median [lo, hi]", "P(above)", "expected loss"));
         for (Comparison c : r.comparisons()) {
-            sb.append(String.format(Locale.ROOT, row, c.arm(), label(c.metric()),
+            sb.append(String.format(Locale.ROOT, row, c.arm() + ("typical-segment".equals(c.scope()) ? " (typical)" : ""),
+                    label(c.metric()),
                     String.format(Locale.ROOT, "%+.1f%% [%+.1f%%, %+.1f%%]", 100 * c.lift().median(), 100 * c.lift().lo(),
                             100 * c.lift().hi()),
                     String.format(Locale.ROOT, "%.3f", c.probAbove()), Numbers.sig(c.expectedLoss(), 3)));
+        }
+        if (r.segments() != null) {
+            appendSegments(sb, r, width);
         }
         sb.append('\n');
         for (Map.Entry<String, Map<String, Double>> e : r.probBest().entrySet()) {
@@ -128,6 +140,31 @@ final class ResultPrinter {
         sb.append('\n');
         r.cautions().forEach(c -> sb.append("Note: ").append(c).append('\n'));
         return sb.toString();
+    }
+
+    /** Per segment, the headline metric's lift of each arm: raw (own data) beside pooled, so shrinkage shows. */
+    private static void appendSegments(StringBuilder sb, Result r, int armWidth) {
+        int width = Math.max(7, r.segments().keySet().stream().mapToInt(String::length).max().orElse(7));
+        String metric = r.comparisons().get(0).metric();
+        sb.append(String.format(Locale.ROOT, "%nBy segment (%s lift against %s; raw = the segment's own data alone):%n",
+                label(metric), r.control()));
+        String row = "  %-" + width + "s  %-" + armWidth + "s  %10s  %9s  %-28s  %9s%n";
+        sb.append(String.format(Locale.ROOT, row, "segment", "arm", "users", "raw", "pooled median [lo, hi]", "P(above)"));
+        for (Map.Entry<String, dev.cairn.models.result.SegmentSummary> e : r.segments().entrySet()) {
+            for (Comparison c : e.getValue().comparisons()) {
+                if (!c.metric().equals(metric)) {
+                    continue;
+                }
+                sb.append(String.format(Locale.ROOT, row, e.getKey(), c.arm(), String.format(Locale.ROOT, "%,d", e.getValue().users()),
+                        c.rawLift() == null ? "-" : String.format(Locale.ROOT, "%+.1f%%", 100 * c.rawLift()),
+                        String.format(Locale.ROOT, "%+.1f%% [%+.1f%%, %+.1f%%]", 100 * c.lift().median(),
+                                100 * c.lift().lo(), 100 * c.lift().hi()),
+                        String.format(Locale.ROOT, "%.3f", c.probAbove())));
+            }
+            if (e.getValue().notes() != null) {
+                e.getValue().notes().forEach(n -> sb.append("    note: ").append(n).append('\n'));
+            }
+        }
     }
 
     private static String label(String metric) {

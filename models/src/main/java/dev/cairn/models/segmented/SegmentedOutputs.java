@@ -8,11 +8,12 @@ import java.util.List;
  * The named quantities of a segmented-spend fit, computed draw by draw from the internal coordinates
  * (so they are the same whichever parameterisation ran):
  * <ul>
- *   <li>hyperparameters: alpha0, D[arm], tauAlpha, tauD; with spend beta0, E[arm], s0, tauBeta, tauE, tauS;</li>
+ *   <li>hyperparameters: alpha0, D[arm], tauAlpha, tauD; with spend beta0, E[arm], G[arm], s0, tauBeta, tauE,
+ *       tauS;</li>
  *   <li>per cell: payerRate[segment/arm]; with spend logSpendMean[segment/arm], arppu[segment/arm] =
- *       exp(mu + sigma^2/2), arpu[segment/arm] = payerRate x arppu; per segment logSpendSd[segment];</li>
+ *       exp(mu + sigma_jk^2/2), arpu[segment/arm] = payerRate x arppu; per segment logSpendSd[segment];</li>
  *   <li>typical segment (the hyper-means): payerRate[typical/arm] = logistic(alpha0 + D_k), and with spend
- *       arppu[typical/arm] = exp(beta0 + E_k + exp(2 s0)/2), arpu[typical/arm];</li>
+ *       arppu[typical/arm] = exp(beta0 + E_k + exp(2 (s0 + G_k))/2), arpu[typical/arm];</li>
  *   <li>population (segments weighted by their share of users): payerRate[population/arm] = sum_j w_j p_jk,
  *       arpu[population/arm] = sum_j w_j arpu_jk, arppu[population/arm] = arpu / payerRate.</li>
  * </ul>
@@ -48,6 +49,7 @@ final class SegmentedOutputs {
             for (int k = 0; k < arms.size(); k++) {
                 if (k != model.control) {
                     names.add("E[" + arms.get(k) + "]");
+                    names.add("G[" + arms.get(k) + "]");
                 }
             }
         }
@@ -104,6 +106,7 @@ final class SegmentedOutputs {
                     for (int k = 0; k < arms.size(); k++) {
                         if (k != model.control) {
                             out[c][col++][t] = x[at.bigE + k];
+                            out[c][col++][t] = x[at.bigG + k];
                         }
                     }
                 }
@@ -114,7 +117,8 @@ final class SegmentedOutputs {
                     out[c][col++][t] = p;
                     if (model.spend) {
                         double ek = k == model.control ? 0 : x[at.bigE + k];
-                        double arppu = Math.exp(x[at.beta0] + ek + 0.5 * Math.exp(2 * x[at.s0]));
+                        double gk = k == model.control ? 0 : x[at.bigG + k];
+                        double arppu = Math.exp(x[at.beta0] + ek + 0.5 * Math.exp(2 * (x[at.s0] + gk)));
                         out[c][col++][t] = arppu;
                         out[c][col++][t] = p * arppu;
                     }
@@ -137,7 +141,7 @@ final class SegmentedOutputs {
                         popRate[k] += weights[j] * p;
                         if (model.spend) {
                             double mu = b + model.e(x, j, k);
-                            double arppu = Math.exp(mu + 0.5 * Math.exp(2 * ls));
+                            double arppu = Math.exp(mu + 0.5 * Math.exp(2 * model.logSigmaCell(x, j, k)));
                             out[c][col++][t] = mu;
                             out[c][col++][t] = arppu;
                             out[c][col++][t] = p * arppu;

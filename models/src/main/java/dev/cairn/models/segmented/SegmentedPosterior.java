@@ -26,8 +26,10 @@ import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
  *   log y | payer ~ N(mu_jk, sigma_j^2),  mu_jk      = beta_j  + e_jk       (e_j,control = 0)
  *   alpha_j ~ N(alpha0, tauAlpha^2)    d_jk ~ N(D_k, tauD^2)
  *   beta_j  ~ N(beta0,  tauBeta^2)     e_jk ~ N(E_k, tauE^2)
- *   log sigma_j ~ N(s0, tauS^2)
+ *   log sigma_jk = log sigma_j + G_k    (G_control = 0),   log sigma_j ~ N(s0, tauS^2),   G_k ~ N(0, 0.5^2)
  * </pre>
+ * G_k lets an arm change the spread of payers' spend (a discount that draws a few big spenders), which
+ * changes ARPPU = exp(mu + sigma^2/2) even when the mean log spend does not move.
  * Hyperpriors (scale reasoning): alpha0 ~ N(-3, 2^2) puts the typical payer rate near 5% with 0.1%-50%
  * inside two sd; D_k, E_k ~ N(0, 1) allow arm effects up to a factor e^2 on the odds or on spend;
  * beta0 ~ N(0, 5^2) leaves the currency scale free; s0 ~ N(0, 1); tauAlpha, tauBeta ~ half-N(0, 1) and
@@ -49,7 +51,7 @@ import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
  */
 public final class SegmentedPosterior {
     static final double ALPHA0_MEAN = -3, ALPHA0_SD = 2, EFFECT_SD = 1, BETA0_SD = 5, S0_SD = 1;
-    static final double TAU_LEVEL_SD = 1, TAU_EFFECT_SD = 0.5;
+    static final double TAU_LEVEL_SD = 1, TAU_EFFECT_SD = 0.5, SPREAD_SD = 0.5;
 
     final int segments;
     final int arms;
@@ -97,7 +99,7 @@ public final class SegmentedPosterior {
     /** Positions of the internal coordinates (all unconstrained; taus are on the log scale). */
     static final class Layout {
         final int segments, arms, control;
-        final int alpha, d, beta, e, logSigma, alpha0, bigD, beta0, bigE, s0, tauAlpha, tauD, tauBeta, tauE, tauS, size;
+        final int alpha, d, beta, e, logSigma, alpha0, bigD, beta0, bigE, bigG, s0, tauAlpha, tauD, tauBeta, tauE, tauS, size;
 
         Layout(int segments, int arms, int control, boolean spend) {
             this.segments = segments;
@@ -123,12 +125,14 @@ public final class SegmentedPosterior {
                 beta0 = i++;
                 bigE = i;
                 i += arms;
+                bigG = i;
+                i += arms;
                 s0 = i++;
                 tauBeta = i++;
                 tauE = i++;
                 tauS = i++;
             } else {
-                beta = e = logSigma = beta0 = bigE = s0 = tauBeta = tauE = tauS = -1;
+                beta = e = logSigma = beta0 = bigE = bigG = s0 = tauBeta = tauE = tauS = -1;
             }
             size = i;
         }
@@ -168,6 +172,11 @@ public final class SegmentedPosterior {
 
     double logSigma(double[] x, int j) {
         return levelsNc ? x[at.s0] + Math.exp(x[at.tauS]) * x[at.logSigma + j] : x[at.logSigma + j];
+    }
+
+    /** log sigma of cell (j, k): the segment's log sigma plus the arm's shift G_k (G_control = 0). */
+    double logSigmaCell(double[] x, int j, int k) {
+        return logSigma(x, j) + (k == control ? 0 : x[at.bigG + k]);
     }
 
     /** m eta - n log(1 + e^eta): the binomial log likelihood of cell (j, k) at logit eta. */
@@ -230,7 +239,7 @@ public final class SegmentedPosterior {
             double tB = Math.exp(x[at.tauBeta]), tE = Math.exp(x[at.tauE]), tS = Math.exp(x[at.tauS]);
             for (int k = 0; k < arms; k++) {
                 if (k != control) {
-                    lp += normal(x[at.bigE + k], 0, EFFECT_SD);
+                    lp += normal(x[at.bigE + k], 0, EFFECT_SD) + normal(x[at.bigG + k], 0, SPREAD_SD);
                 }
             }
             for (int j = 0; j < segments; j++) {
@@ -243,7 +252,7 @@ public final class SegmentedPosterior {
                         lp += effectsNc ? normal(x[at.e(j, k)], 0, 1)
                                 : normal(x[at.e(j, k)], x[at.bigE + k], tE) - Math.log(tE);
                     }
-                    lp += lognormal(j, k, b + e(x, j, k), ls);
+                    lp += lognormal(j, k, b + e(x, j, k), ls + (k == control ? 0 : x[at.bigG + k]));
                 }
             }
         }
@@ -397,7 +406,7 @@ public final class SegmentedPosterior {
                     double ls = levelsNc ? x[at.s0] + tS * v : v;
                     double lp = levelsNc ? -0.5 * v * v : normal(v, x[at.s0], tS);
                     for (int k = 0; k < arms; k++) {
-                        lp += lognormal(jj, k, beta(x, jj) + e(x, jj, k), ls);
+                        lp += lognormal(jj, k, beta(x, jj) + e(x, jj, k), ls + (k == control ? 0 : x[at.bigG + k]));
                     }
                     return lp;
                 });
@@ -408,9 +417,9 @@ public final class SegmentedPosterior {
                 double pb = 1 / (BETA0_SD * BETA0_SD);
                 double wb = 0;
                 for (int j = 0; j < segments; j++) {
-                    double v = Math.exp(2 * logSigma(x, j));
                     double rest = tB * x[at.beta + j];
                     for (int k = 0; k < arms; k++) {
+                        double v = Math.exp(2 * logSigmaCell(x, j, k));
                         pb += m[j][k] / v;
                         wb += (s1[j][k] - m[j][k] * (rest + e(x, j, k))) / v;
                     }
@@ -434,7 +443,7 @@ public final class SegmentedPosterior {
                     double p = 1 / (EFFECT_SD * EFFECT_SD);
                     double w = 0;
                     for (int j = 0; j < segments; j++) {
-                        double v = Math.exp(2 * logSigma(x, j));
+                        double v = Math.exp(2 * logSigmaCell(x, j, k));
                         p += m[j][k] / v;
                         w += (s1[j][k] - m[j][k] * (beta(x, j) + tE * x[at.e(j, k)])) / v;
                     }
@@ -446,6 +455,12 @@ public final class SegmentedPosterior {
                     }
                     double p = 1 / (EFFECT_SD * EFFECT_SD) + segments / (tE * tE);
                     x[at.bigE + k] = normalDraw(s / (tE * tE) / p, p);
+                }
+            }
+            for (int k = 0; k < arms; k++) {
+                if (k != control) {
+                    int i = at.bigG + k;
+                    slice(x, i, v -> normal(v, 0, SPREAD_SD) + allLognormal(x, i, v));
                 }
             }
             if (effectsNc) {
@@ -536,7 +551,8 @@ public final class SegmentedPosterior {
             for (int j = 0; j < segments; j++) {
                 double level = mean + tau * a[j];
                 for (int k = 0; k < arms; k++) {
-                    lp += payer ? binomial(j, k, level + d(x, j, k)) : lognormal(j, k, beta(x, j) + e(x, j, k), level);
+                    lp += payer ? binomial(j, k, level + d(x, j, k))
+                            : lognormal(j, k, beta(x, j) + e(x, j, k), level + (k == control ? 0 : x[at.bigG + k]));
                 }
             }
             return lp;
@@ -555,9 +571,9 @@ public final class SegmentedPosterior {
             double[] variance = new double[segments];
             int informative = 0;
             for (int j = 0; j < segments; j++) {
-                double v = Math.exp(2 * logSigma(x, j));
                 double p = 0, w = 0;
                 for (int k = 0; k < arms; k++) {
+                    double v = Math.exp(2 * logSigmaCell(x, j, k));
                     p += m[j][k] / v;
                     w += (s1[j][k] - m[j][k] * e(x, j, k)) / v;
                 }
@@ -616,7 +632,6 @@ public final class SegmentedPosterior {
          * once removes the strong negative correlation between a segment's level and its arm effects.
          */
         private void spendBlock(double[] x, int j) {
-            double v = Math.exp(2 * logSigma(x, j));
             double tB = Math.exp(x[at.tauBeta]), tE = Math.exp(x[at.tauE]);
             double levelCoef = levelsNc ? tB : 1, levelOffset = levelsNc ? x[at.beta0] : 0;
             double effectCoef = effectsNc ? tE : 1;
@@ -639,6 +654,7 @@ public final class SegmentedPosterior {
                 blockH[r] = mean / var;
             }
             for (int k = 0; k < arms; k++) {
+                double v = Math.exp(2 * logSigmaCell(x, j, k));
                 double w = m[j][k] / v;
                 if (w == 0) {
                     continue;
@@ -731,9 +747,9 @@ public final class SegmentedPosterior {
             x[i] = v;
             double lp = 0;
             for (int j = 0; j < segments; j++) {
-                double b = beta(x, j), ls = logSigma(x, j);
+                double b = beta(x, j);
                 for (int k = 0; k < arms; k++) {
-                    lp += lognormal(j, k, b + e(x, j, k), ls);
+                    lp += lognormal(j, k, b + e(x, j, k), logSigmaCell(x, j, k));
                 }
             }
             x[i] = saved;
