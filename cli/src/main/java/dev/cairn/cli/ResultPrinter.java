@@ -7,6 +7,7 @@ import dev.cairn.models.result.FitResult;
 import dev.cairn.models.result.PooledResult;
 import dev.cairn.models.result.Interval;
 import dev.cairn.models.result.Result;
+import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 
@@ -18,6 +19,9 @@ final class ResultPrinter {
     static String print(FitResult r) {
         if (r instanceof PooledResult pooled) {
             return pooled(pooled);
+        }
+        if (r instanceof dev.cairn.models.result.RetentionResult retention) {
+            return retention(retention);
         }
         return spend((Result) r);
     }
@@ -49,6 +53,79 @@ final class ResultPrinter {
         sb.append(String.format(Locale.ROOT, "a new effect:            %s  -> informed prior: normal(mean %s, sd %s)%n",
                 interval(r.predictive(), 3), Numbers.sig(r.predictive().mean(), 3), Numbers.sig(r.predictive().sd(), 3)));
         sb.append("(").append(level).append(" credible intervals: median [lo, hi])\n");
+        if (!r.warnings().isEmpty()) {
+            sb.append("\nWarnings:\n");
+            r.warnings().forEach(w -> sb.append("  ! ").append(w).append('\n'));
+        }
+        sb.append('\n');
+        r.cautions().forEach(c -> sb.append("Note: ").append(c).append('\n'));
+        return sb.toString();
+    }
+
+    static String retention(dev.cairn.models.result.RetentionResult r) {
+        StringBuilder sb = new StringBuilder();
+        if (r.title() != null) {
+            sb.append(r.title()).append('\n');
+        }
+        long cohorts = r.cohorts().stream().map(c -> c.get("cohort")).distinct().count();
+        sb.append(String.format(Locale.ROOT, "retention (%s): %d cohorts, %d arms from %s; %s sampler, %d chains x %,d draws, seed %d%n",
+                r.curve(), cohorts, r.arms().size(), r.data().source(), r.run().method(), r.run().chains(), r.run().draws(),
+                r.run().seed()));
+        sb.append(r.converged() ? "Converged (R-hat and ESS checks passed).\n"
+                : "NOT CONVERGED - the numbers below are not to be trusted:\n");
+        if (!r.converged()) {
+            r.diagnostics().reasons().stream().limit(12).forEach(x -> sb.append("  - ").append(x).append('\n'));
+        }
+        sb.append('\n').append(String.format(Locale.ROOT, "%-12s %10s", "arm", "installs"));
+        for (int d : r.days()) {
+            sb.append(String.format(Locale.ROOT, "  %-24s", "D" + d));
+        }
+        sb.append('\n');
+        for (Map.Entry<String, Map<String, Object>> e : r.arms().entrySet()) {
+            sb.append(String.format(Locale.ROOT, "%-12s %,10d", e.getKey() + (e.getKey().equals(r.control()) ? "*" : ""),
+                    ((Number) e.getValue().get("installs")).longValue()));
+            @SuppressWarnings("unchecked")
+            Map<String, Object> ret = (Map<String, Object>) e.getValue().get("retention");
+            for (int d : r.days()) {
+                Interval i = (Interval) ret.get("d" + d);
+                sb.append(String.format(Locale.ROOT, "  %-24s", String.format(Locale.ROOT, "%.1f%% [%.1f, %.1f]",
+                        100 * i.median(), 100 * i.lo(), 100 * i.hi())));
+            }
+            sb.append('\n');
+        }
+        sb.append("(* control; install-weighted over cohorts, unreached days projected; ").append(levelLabel(r.interval()))
+                .append(" intervals)\n\nAgainst ").append(r.control()).append(":\n");
+        for (Comparison c : r.comparisons()) {
+            sb.append(String.format(Locale.ROOT, "  %-12s %-5s  lift %+.1f%% [%+.1f%%, %+.1f%%]  P(above) %.3f%n", c.arm(),
+                    c.metric().toUpperCase(Locale.ROOT), 100 * c.lift().median(), 100 * c.lift().lo(), 100 * c.lift().hi(),
+                    c.probAbove()));
+        }
+        if (r.ltv() != null) {
+            sb.append(String.format(Locale.ROOT, "%nLTV over %s days:", r.ltv().get("horizon")));
+            r.ltv().forEach((k, v) -> {
+                if (v instanceof Interval i) {
+                    sb.append(String.format(Locale.ROOT, "  %s %s [%s, %s]", k, Numbers.sig(i.median(), 3),
+                            Numbers.sig(i.lo(), 3), Numbers.sig(i.hi(), 3)));
+                }
+            });
+            sb.append('\n');
+        }
+        sb.append(String.format(Locale.ROOT, "Drift per cohort: level %s, slope %s (random-walk sd)%n",
+                interval(r.drift().get("level"), 2), interval(r.drift().get("slope"), 2)));
+        int shown = 0;
+        sb.append("\nD" + r.days().get(Math.min(1, r.days().size() - 1)) + " by cohort (control; p = projected):\n");
+        String key = "d" + r.days().get(Math.min(1, r.days().size() - 1));
+        for (Map<String, Object> c : r.cohorts()) {
+            if (!r.control().equals(c.get("arm"))) {
+                continue;
+            }
+            Interval i = (Interval) c.get(key);
+            @SuppressWarnings("unchecked")
+            List<String> projected = (List<String>) c.get("projected");
+            sb.append(String.format(Locale.ROOT, "  %-12s %5.1f%% [%.1f, %.1f]%s%n", c.get("cohort"), 100 * i.median(),
+                    100 * i.lo(), 100 * i.hi(), projected.contains(key) ? " p" : ""));
+            shown++;
+        }
         if (!r.warnings().isEmpty()) {
             sb.append("\nWarnings:\n");
             r.warnings().forEach(w -> sb.append("  ! ").append(w).append('\n'));

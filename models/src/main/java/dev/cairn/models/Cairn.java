@@ -3,6 +3,7 @@ package dev.cairn.models;
 import dev.cairn.models.spec.Spec;
 import dev.cairn.models.spec.SpecReader;
 import dev.cairn.models.pooled.PooledFit;
+import dev.cairn.models.retention.RetentionFit;
 import dev.cairn.models.segmented.SegmentedFit;
 import dev.cairn.models.spend.SpendFit;
 import java.nio.file.Path;
@@ -35,6 +36,7 @@ public final class Cairn {
             case "spend" -> SpendFit.fit(spec, baseDir, options);
             case "pooled-effects" -> PooledFit.fit(spec, baseDir, options);
             case "segmented-spend" -> SegmentedFit.fit(spec, baseDir, options);
+            case "retention" -> RetentionFit.fit(spec, baseDir, options);
             default -> throw new InputException("/model: unknown model '" + spec.model() + "'");
         };
     }

@@ -39,6 +39,7 @@ public final class Demo {
     /** Writes data and specs into {@code dir}, then fits every example; {@code each} sees each fit as it ends. */
     public static List<Fitted> run(Path dir, FitOptions options, java.util.function.Consumer<Fitted> each) {
         DemoScenario.writeUsers(dir);
+        RetentionScenario.write(dir);
         List<Fitted> out = new ArrayList<>();
         for (String name : examples()) {
             try {

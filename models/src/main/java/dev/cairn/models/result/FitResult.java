@@ -3,7 +3,7 @@ package dev.cairn.models.result;
 import java.util.List;
 
 /** What every model's result has: the model, the verdict, warnings and the cautions shown with it. */
-public sealed interface FitResult permits Result, PooledResult {
+public sealed interface FitResult permits Result, PooledResult, RetentionResult {
     String model();
 
     String title();

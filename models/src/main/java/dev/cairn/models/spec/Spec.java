@@ -19,7 +19,18 @@ public record Spec(
         DecisionSpec decision,
         ConvergenceSpec convergence,
         Boolean strict,
-        String parameterisation) {
+        String parameterisation,
+        String curve,
+        java.util.List<Integer> days,
+        LtvSpec ltv) {
+
+    /** retention: LTV horizon and revenue per active day (a number or a table's path). */
+    public record LtvSpec(int horizon, com.fasterxml.jackson.databind.JsonNode revenuePerActiveDay) {
+    }
+
+    public java.util.List<Integer> daysOrDefault() {
+        return days == null ? java.util.List.of(1, 7, 30) : days;
+    }
 
     public SamplerSpec samplerOrDefault() {
         return sampler == null ? SamplerSpec.DEFAULT : sampler.withDefaults();

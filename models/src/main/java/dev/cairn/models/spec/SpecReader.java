@@ -173,7 +173,24 @@ public final class SpecReader {
     private static void checkRules(Spec spec, String origin) {
         PriorsSpec p = spec.priorsOrEmpty();
         boolean pooled = "pooled-effects".equals(spec.model());
-        if (pooled != "estimates".equals(spec.data().layout())) {
+        boolean retention = "retention".equals(spec.model());
+        if (retention != "cohort-days".equals(spec.data().layout())) {
+            throw new InputException(origin + ": /data/layout: model '" + spec.model() + "' "
+                    + (retention ? "needs layout 'cohort-days'" : "does not take layout 'cohort-days'"));
+        }
+        if (!retention && (spec.curve() != null || spec.days() != null || spec.ltv() != null)) {
+            throw new InputException(origin + ": /" + (spec.curve() != null ? "curve" : spec.days() != null ? "days" : "ltv")
+                    + ": belongs to model 'retention'");
+        }
+        if (retention && spec.curve() == null) {
+            throw new InputException(origin + ": /curve: required for model 'retention' ('activity' or 'survival')");
+        }
+        if (retention && (p.anySpend() || p.mu() != null || p.tau() != null)) {
+            throw new InputException(origin + ": /priors: retention uses its own documented priors; remove them");
+        }
+        if (retention) {
+            // fall through: the layout check below is for the other models
+        } else if (pooled != "estimates".equals(spec.data().layout())) {
             throw new InputException(origin + ": /data/layout: model '" + spec.model() + "' "
                     + (pooled ? "needs layout 'estimates'" : "takes layout 'users' or 'summary', not 'estimates'"));
         }
