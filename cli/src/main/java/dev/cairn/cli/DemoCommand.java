@@ -26,6 +26,9 @@ final class DemoCommand implements Callable<Integer> {
             description = "Folder for the data, the specs and one result folder per spec (default: ${DEFAULT-VALUE}).")
     Path out;
 
+    @Option(names = "--quiet", description = "No progress bar.")
+    boolean quiet;
+
     @CommandLine.Spec
     CommandLine.Model.CommandSpec command;
 
@@ -36,11 +39,14 @@ final class DemoCommand implements Callable<Integer> {
         stdout.flush();
         List<Demo.Fitted> fitted;
         try {
-            fitted = Demo.run(out, FitOptions.DEFAULT, f -> {
+            dev.cairn.samplers.Progress progress = ProgressBar.forTerminal(quiet, "demo");
+            fitted = Demo.run(out, FitOptions.DEFAULT.withProgress(progress), f -> {
+                ProgressBar.finish(progress);
+                dev.cairn.cli.report.ReportWriter.write(f.outcome(), f.spec(), f.folder());
                 stdout.println();
                 stdout.println("=== " + f.spec() + " ===");
                 stdout.print(ResultPrinter.print(f.outcome().result()));
-                stdout.println("Wrote " + f.folder().resolve("result.json") + " and draws.csv");
+                stdout.println("Wrote " + f.folder().resolve("result.json") + ", draws.csv and report.html");
                 stdout.flush();
             });
         } catch (InputException e) {

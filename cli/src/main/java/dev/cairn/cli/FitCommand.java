@@ -18,7 +18,7 @@ import picocli.CommandLine.Parameters;
 @Command(name = "fit",
         mixinStandardHelpOptions = true,
         description = {
-            "Fit the model a spec describes and write DIR/result.json and DIR/draws.csv.",
+            "Fit the model a spec describes and write DIR/result.json, DIR/draws.csv and DIR/report.html.",
             "Exit code 0: converged; 2: bad spec or data (nothing written); 3: fitted but not converged "
                 + "(files written with \"converged\": false); 1: internal error."
         })
@@ -52,17 +52,23 @@ final class FitCommand implements Callable<Integer> {
             return ExitCodes.BAD_INPUT;
         }
         FitOutcome outcome;
+        dev.cairn.samplers.Progress progress = ProgressBar.forTerminal(quiet, "fitting");
         try {
-            FitOptions options = threads == null ? FitOptions.DEFAULT : FitOptions.DEFAULT.withThreads(threads);
+            FitOptions options = (threads == null ? FitOptions.DEFAULT : FitOptions.DEFAULT.withThreads(threads))
+                    .withProgress(progress);
             outcome = Cairn.fit(spec, options);
         } catch (InputException e) {
             err.println("cairn fit: " + e.getMessage());
             return ExitCodes.BAD_INPUT;
+        } finally {
+            ProgressBar.finish(progress);
         }
         ResultWriter.write(outcome, out);
+        dev.cairn.cli.report.ReportWriter.write(outcome, spec.getFileName().toString(), out);
         if (!quiet) {
             stdout.print(ResultPrinter.print(outcome.result()));
-            stdout.println("\nWrote " + out.resolve(ResultWriter.RESULT) + " and " + out.resolve(ResultWriter.DRAWS));
+            stdout.println("\nWrote " + out.resolve(ResultWriter.RESULT) + ", " + out.resolve(ResultWriter.DRAWS) + " and "
+                    + out.resolve(dev.cairn.cli.report.ReportWriter.REPORT));
             stdout.flush();
         }
         return outcome.result().converged() ? ExitCodes.OK : ExitCodes.NOT_CONVERGED;

@@ -23,6 +23,7 @@ public final class Main implements Runnable {
     CommandLine.Model.CommandSpec spec;
 
     public static void main(String[] args) {
+        System.setProperty("java.awt.headless", "true"); // charts are drawn to SVG, never to a screen
         System.exit(run(args));
     }
 

@@ -95,16 +95,4 @@ class FitCommandTest {
         assertEquals("https://json-schema.org/draft/2020-12/schema", schema.get("$schema").asText());
         assertFalse(schema.get("additionalProperties").asBoolean());
     }
-
-    @Test
-    void demoFitsEveryExampleAndExitsZero() throws IOException {
-        Path out = dir.resolve("demo");
-        String[] r = MainTest.run("demo", "--out", out.toString());
-        assertEquals("0", r[0], r[2]);
-        for (String name : new String[] {"store-layout-arpu", "store-layout-arpu-mcmc", "store-layout-conversion"}) {
-            assertTrue(Files.exists(out.resolve(name).resolve("result.json")), name);
-            assertTrue(r[1].contains("=== " + name + ".json ==="), name);
-        }
-        assertTrue(Files.exists(out.resolve("lantern-reef-users.csv")));
-    }
 }

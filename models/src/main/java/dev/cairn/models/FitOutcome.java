@@ -3,6 +3,13 @@ package dev.cairn.models;
 import dev.cairn.models.result.FitResult;
 import dev.cairn.samplers.Draws;
 
-/** A finished fit: the result (what result.json holds) and every draw, derived quantities included. */
-public record FitOutcome(FitResult result, Draws draws) {
+/**
+ * A finished fit: the result (what result.json holds), every draw (derived quantities included), and
+ * figures for plots that the result does not carry (replicated check statistics, retention curve bands);
+ * {@code figures} maps a name to a double[] or double[][].
+ */
+public record FitOutcome(FitResult result, Draws draws, java.util.Map<String, Object> figures) {
+    public FitOutcome(FitResult result, Draws draws) {
+        this(result, draws, java.util.Map.of());
+    }
 }

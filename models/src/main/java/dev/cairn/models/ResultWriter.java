@@ -48,7 +48,10 @@ public final class ResultWriter {
 
     /** Writes text through the given action into a temporary sibling, then renames it onto {@code target}. */
     public static void atomically(Path target, TextAction action) throws IOException {
-        Path tmp = Files.createTempFile(target.getParent(), "." + target.getFileName(), ".tmp");
+        // A sibling with a random suffix, created with the default permissions (not the owner-only ones of a
+        // temporary file), so the renamed file reads like any other the user writes.
+        Path tmp = target.resolveSibling("." + target.getFileName() + "." + Long.toHexString(System.nanoTime())
+                + Long.toHexString(Double.doubleToLongBits(Math.random())) + ".tmp");
         try {
             try (Writer w = Files.newBufferedWriter(tmp, StandardCharsets.UTF_8)) {
                 action.write(w);

@@ -145,7 +145,82 @@ public final class RetentionFit {
                 new Run("metropolis-within-gibbs", settings.chains(), settings.warmup(), settings.draws(), settings.thin(),
                         settings.seed(), seconds, Version.get()),
                 priors, warnings, Result.CAUTIONS);
-        return new FitOutcome(result, draws);
+        return new FitOutcome(result, draws, curveBands(internal, model, data, days, level));
+    }
+
+    /**
+     * For plots: per arm, the install-weighted curve's {mean, lo, median, hi} at every day 1..T (T the
+     * largest of the requested and observed days), the observed share per day pooled over the cohorts that
+     * reached it, and the last day any cohort reached.
+     */
+    static java.util.Map<String, Object> curveBands(Draws internal, RetentionPosterior m, CohortDays data, List<Integer> days,
+                                                    double level) {
+        int maxDay = days.stream().mapToInt(Integer::intValue).max().orElse(30);
+        for (int c = 0; c < data.cohorts().size(); c++) {
+            for (int k = 0; k < data.arms().size(); k++) {
+                maxDay = Math.max(maxDay, data.lastObservedDay(c, k));
+            }
+        }
+        int total = internal.chains() * internal.iterations();
+        int step = Math.max(1, total / 400);
+        int kept = (total + step - 1) / step;
+        java.util.Map<String, Object> out = new LinkedHashMap<>();
+        double[] x = new double[m.size];
+        double[][] columns = new double[m.size][];
+        for (int i = 0; i < m.size; i++) {
+            columns[i] = internal.pooled("x" + i);
+        }
+        double[] curve = new double[maxDay + 1];
+        for (int k = 0; k < data.arms().size(); k++) {
+            double[][] byDay = new double[maxDay + 1][kept];
+            int j = 0;
+            for (int draw = 0; draw < total; draw += step, j++) {
+                for (int i = 0; i < m.size; i++) {
+                    x[i] = columns[i][draw];
+                }
+                double installs = 0;
+                double[] sum = new double[maxDay + 1];
+                for (int c = 0; c < data.cohorts().size(); c++) {
+                    double w = data.installs(c, k);
+                    if (w == 0) {
+                        continue;
+                    }
+                    installs += w;
+                    RetentionOutputs.series(m, x, c, k, curve);
+                    for (int t = 1; t <= maxDay; t++) {
+                        sum[t] += w * curve[t];
+                    }
+                }
+                for (int t = 1; t <= maxDay; t++) {
+                    byDay[t][j] = installs == 0 ? 0 : sum[t] / installs;
+                }
+            }
+            double[][] band = new double[maxDay + 1][];
+            for (int t = 1; t <= maxDay; t++) {
+                Interval i = Interval.of(byDay[t], level);
+                band[t] = new double[] {i.mean(), i.lo(), i.median(), i.hi()};
+            }
+            out.put("curve/" + data.arms().get(k), band);
+            double[] observed = new double[maxDay + 1];
+            java.util.Arrays.fill(observed, Double.NaN);
+            double[] active = new double[maxDay + 1], installed = new double[maxDay + 1];
+            int last = 0;
+            for (int c = 0; c < data.cohorts().size(); c++) {
+                for (java.util.Map.Entry<Integer, Long> e : data.observed(c, k).entrySet()) {
+                    active[e.getKey()] += e.getValue();
+                    installed[e.getKey()] += data.installs(c, k);
+                    last = Math.max(last, e.getKey());
+                }
+            }
+            for (int t = 1; t <= maxDay; t++) {
+                if (installed[t] > 0) {
+                    observed[t] = active[t] / installed[t];
+                }
+            }
+            out.put("observed/" + data.arms().get(k), observed);
+            out.put("lastDay/" + data.arms().get(k), new double[] {last});
+        }
+        return out;
     }
 
     /** Revenue per active day per arm and draw: a fixed number, or R + se z from a table (seeded). */

@@ -138,6 +138,11 @@ public final class SpendAnalysis {
      * central limit theorem above.
      */
     public static List<Check> checks(Draws draws, SpendData data, UniformRandomProvider rng) {
+        return checks(draws, data, rng, null);
+    }
+
+    /** As {@link #checks(Draws, SpendData, UniformRandomProvider)}, keeping each replicated statistic under "arm/statistic". */
+    public static List<Check> checks(Draws draws, SpendData data, UniformRandomProvider rng, Map<String, Object> replicatedOut) {
         List<Check> out = new ArrayList<>();
         if (!data.hasSpend()) {
             return out;
@@ -155,6 +160,7 @@ public final class SpendAnalysis {
                 a.payerP90(), a.payerP99(), a.spendMax()};
             int statistics = observedSpend && a.payers() > 0 ? names.length : 1;
             double[] above = new double[statistics];
+            double[][] kept = new double[statistics][r];
             for (int j = 0; j < r; j++) {
                 int i = (int) ((long) j * total / r);
                 int payers = replicatedPayers(a.users(), p[i], rng);
@@ -169,9 +175,13 @@ public final class SpendAnalysis {
                 }
                 for (int s = 0; s < statistics; s++) {
                     above[s] += replicated[s] > observed[s] ? 1 : replicated[s] == observed[s] ? 0.5 : 0;
+                    kept[s][j] = replicated[s];
                 }
             }
             for (int s = 0; s < statistics; s++) {
+                if (replicatedOut != null) {
+                    replicatedOut.put(a.arm() + "/" + names[s], kept[s]);
+                }
                 double pValue = above[s] / r;
                 out.add(new Check(a.arm(), names[s], observed[s], pValue, pValue < MISFIT || pValue > 1 - MISFIT));
             }

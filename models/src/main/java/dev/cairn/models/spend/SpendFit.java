@@ -58,7 +58,8 @@ public final class SpendFit {
         DiagnosticsReport report = FitSupport.diagnose(draws, spec);
 
         double level = spec.interval();
-        List<Check> checks = SpendAnalysis.checks(draws, data, RandomStreams.forChain(s.seed(), s.chains()));
+        java.util.Map<String, Object> figures = new java.util.LinkedHashMap<>();
+        List<Check> checks = SpendAnalysis.checks(draws, data, RandomStreams.forChain(s.seed(), s.chains()), figures);
         List<String> warnings = new ArrayList<>(data.warnings());
         warnings.addAll(SpendAnalysis.warnings(checks));
         if (!report.converged()) {
@@ -80,7 +81,7 @@ public final class SpendFit {
                 new Run(method, settings.chains(), settings.warmup(), settings.draws(), settings.thin(), settings.seed(),
                         seconds, Version.get()),
                 priors, warnings, Result.CAUTIONS);
-        return new FitOutcome(result, draws);
+        return new FitOutcome(result, draws, figures);
     }
 
     /** auto: exact for conjugate priors or conversion-only data, slice sampling otherwise. */

@@ -1,0 +1,87 @@
+package dev.cairn.cli;
+
+import dev.cairn.samplers.Progress;
+import java.io.PrintStream;
+import java.util.Locale;
+import java.util.concurrent.atomic.AtomicLongArray;
+
+/**
+ * A one-line progress bar on stderr for fits that take more than about a second: share of all chains'
+ * iterations done, whether chains are still warming up, and the time left. Drawn only when the process
+ * has a terminal, at most ten times a second, and erased when the fit ends.
+ */
+final class ProgressBar implements Progress {
+    private static final long DELAY_NANOS = 1_000_000_000L;
+    private static final long INTERVAL_NANOS = 100_000_000L;
+    private final PrintStream err;
+    private final String label;
+    private final long start = System.nanoTime();
+    private final AtomicLongArray done = new AtomicLongArray(256);
+    private final AtomicLongArray totals = new AtomicLongArray(256);
+    private volatile boolean warmup = true;
+    private long lastDrawn;
+    private boolean drawn;
+
+    private ProgressBar(PrintStream err, String label) {
+        this.err = err;
+        this.label = label;
+    }
+
+    /** A bar when stderr is (very likely) a terminal and not silenced; else the no-op progress. */
+    static Progress forTerminal(boolean quiet, String label) {
+        boolean terminal = System.console() != null && !"dumb".equals(System.getenv("TERM"));
+        return quiet || !terminal ? Progress.NONE : new ProgressBar(System.err, label);
+    }
+
+    @Override
+    public void report(int chain, long iterations, long total, boolean inWarmup) {
+        if (chain >= done.length()) {
+            return;
+        }
+        done.set(chain, iterations);
+        totals.set(chain, total);
+        warmup = inWarmup;
+        long now = System.nanoTime();
+        if (now - start < DELAY_NANOS) {
+            return;
+        }
+        synchronized (this) {
+            if (now - lastDrawn < INTERVAL_NANOS && iterations < total) {
+                return;
+            }
+            lastDrawn = now;
+            long sumDone = 0, sumTotal = 0;
+            for (int i = 0; i < done.length(); i++) {
+                sumDone += done.get(i);
+                sumTotal += totals.get(i);
+            }
+            if (sumTotal == 0) {
+                return;
+            }
+            double share = (double) sumDone / sumTotal;
+            double elapsed = (now - start) / 1e9;
+            double left = share > 0 ? elapsed * (1 - share) / share : Double.NaN;
+            int width = 30;
+            int filled = (int) Math.round(share * width);
+            err.print(String.format(Locale.ROOT, "\r%s [%s%s] %3.0f%% %s  %d/%d iterations  about %.0f s left ", label,
+                    "#".repeat(filled), ".".repeat(width - filled), 100 * share, warmup ? "warmup  " : "sampling",
+                    sumDone, sumTotal, left));
+            err.flush();
+            drawn = true;
+        }
+    }
+
+    /** Erases the bar (call when the fit ends). */
+    synchronized void finish() {
+        if (drawn) {
+            err.print("\r" + " ".repeat(100) + "\r");
+            err.flush();
+        }
+    }
+
+    static void finish(Progress p) {
+        if (p instanceof ProgressBar bar) {
+            bar.finish();
+        }
+    }
+}

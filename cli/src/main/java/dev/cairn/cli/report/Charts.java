@@ -1,0 +1,288 @@
+package dev.cairn.cli.report;
+
+import java.awt.BasicStroke;
+import java.awt.Color;
+import java.awt.Font;
+import java.awt.Rectangle;
+import java.util.List;
+import org.jfree.chart.JFreeChart;
+import org.jfree.chart.axis.NumberAxis;
+import org.jfree.chart.axis.SymbolAxis;
+import org.jfree.chart.plot.IntervalMarker;
+import org.jfree.chart.plot.ValueMarker;
+import org.jfree.chart.plot.XYPlot;
+import org.jfree.chart.renderer.xy.DeviationRenderer;
+import org.jfree.chart.renderer.xy.StandardXYBarPainter;
+import org.jfree.chart.renderer.xy.XYBarRenderer;
+import org.jfree.chart.renderer.xy.XYErrorRenderer;
+import org.jfree.chart.renderer.xy.XYLineAndShapeRenderer;
+import org.jfree.data.statistics.HistogramDataset;
+import org.jfree.data.xy.XYSeries;
+import org.jfree.data.xy.XYSeriesCollection;
+import org.jfree.data.xy.YIntervalSeries;
+import org.jfree.data.xy.YIntervalSeriesCollection;
+import org.jfree.svg.SVGGraphics2D;
+
+/** Charts drawn with JFreeChart and exported as inline SVG (org.jfree.svg), in cairn's own colours. */
+final class Charts {
+    /** cairn's palette: deep teal, amber, moss, plum, brick, slate. */
+    static final Color[] PALETTE = {new Color(0x1b6f8a), new Color(0xd07a2c), new Color(0x6b8f3e), new Color(0x8a4f9e),
+        new Color(0xb23a48), new Color(0x54626f)};
+    static final Color INK = new Color(0x22303a);
+    static final Color GRID = new Color(0xdde3e8);
+    static final int WIDTH = 560, HEIGHT = 300;
+
+    private Charts() {
+    }
+
+    static Color colour(int i) {
+        return PALETTE[i % PALETTE.length];
+    }
+
+    static String svg(JFreeChart chart, int width, int height) {
+        chart.setBackgroundPaint(Color.WHITE);
+        chart.setAntiAlias(true);
+        if (chart.getTitle() != null) {
+            chart.getTitle().setFont(new Font("SansSerif", Font.BOLD, 13));
+            chart.getTitle().setPaint(INK);
+        }
+        SVGGraphics2D g = new SVGGraphics2D(width, height);
+        chart.draw(g, new Rectangle(0, 0, width, height));
+        return g.getSVGElement();
+    }
+
+    private static XYPlot style(XYPlot plot) {
+        plot.setBackgroundPaint(Color.WHITE);
+        plot.setDomainGridlinePaint(GRID);
+        plot.setRangeGridlinePaint(GRID);
+        plot.setOutlineVisible(false);
+        return plot;
+    }
+
+    /** Overlaid posterior histograms (one series per label), optional vertical markers at values. */
+    static String histograms(String title, String xLabel, List<String> labels, List<double[]> draws, double[] markers) {
+        HistogramDataset data = new HistogramDataset();
+        double lo = Double.POSITIVE_INFINITY, hi = Double.NEGATIVE_INFINITY;
+        for (double[] d : draws) {
+            for (double v : d) {
+                lo = Math.min(lo, v);
+                hi = Math.max(hi, v);
+            }
+        }
+        if (!(hi > lo)) {
+            hi = lo + 1e-9;
+        }
+        for (int i = 0; i < labels.size(); i++) {
+            data.addSeries(labels.get(i), draws.get(i), 60, lo, hi);
+        }
+        XYBarRenderer renderer = new XYBarRenderer();
+        renderer.setBarPainter(new StandardXYBarPainter());
+        renderer.setShadowVisible(false);
+        renderer.setDrawBarOutline(false);
+        for (int i = 0; i < labels.size(); i++) {
+            Color c = colour(i);
+            renderer.setSeriesPaint(i, new Color(c.getRed(), c.getGreen(), c.getBlue(), 140));
+        }
+        NumberAxis x = new NumberAxis(xLabel);
+        x.setAutoRangeIncludesZero(false);
+        NumberAxis y = new NumberAxis("draws");
+        XYPlot plot = style(new XYPlot(data, x, y, renderer));
+        plot.setForegroundAlpha(0.8f);
+        if (markers != null) {
+            for (double m : markers) {
+                ValueMarker vm = new ValueMarker(m, INK, new BasicStroke(1.2f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER,
+                        10, new float[] {4, 3}, 0));
+                plot.addDomainMarker(vm);
+            }
+        }
+        return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, labels.size() > 1), WIDTH, HEIGHT);
+    }
+
+    /** A lift distribution with its credible interval shaded and zero marked. */
+    static String lift(String title, double[] draws, double lo, double hi) {
+        String svg;
+        HistogramDataset data = new HistogramDataset();
+        double min = Double.POSITIVE_INFINITY, max = Double.NEGATIVE_INFINITY;
+        for (double v : draws) {
+            min = Math.min(min, v);
+            max = Math.max(max, v);
+        }
+        data.addSeries("lift", draws, 60, min, Math.max(max, min + 1e-9));
+        XYBarRenderer renderer = new XYBarRenderer();
+        renderer.setBarPainter(new StandardXYBarPainter());
+        renderer.setShadowVisible(false);
+        renderer.setSeriesPaint(0, colour(0));
+        NumberAxis x = new NumberAxis("lift (arm / control - 1)");
+        x.setAutoRangeIncludesZero(true);
+        x.setNumberFormatOverride(new java.text.DecimalFormat("+0.#%;-0.#%"));
+        XYPlot plot = style(new XYPlot(data, x, new NumberAxis("draws"), renderer));
+        IntervalMarker band = new IntervalMarker(lo, hi, new Color(0xd07a2c), new BasicStroke(1f), null, null, 0.18f);
+        plot.addDomainMarker(band, org.jfree.chart.ui.Layer.BACKGROUND);
+        plot.addDomainMarker(new ValueMarker(0, PALETTE[4], new BasicStroke(1.5f)));
+        svg = svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, false), WIDTH, HEIGHT);
+        return svg;
+    }
+
+    /** One line per chain over iterations (thinned to at most 800 points per chain). */
+    static String trace(String title, double[][] chains) {
+        XYSeriesCollection data = new XYSeriesCollection();
+        for (int c = 0; c < chains.length; c++) {
+            XYSeries s = new XYSeries("chain " + (c + 1), false, true);
+            int step = Math.max(1, chains[c].length / 400);
+            for (int t = 0; t < chains[c].length; t += step) {
+                s.add(t + 1, chains[c][t]);
+            }
+            data.addSeries(s);
+        }
+        XYLineAndShapeRenderer renderer = new XYLineAndShapeRenderer(true, false);
+        renderer.setDrawSeriesLineAsPath(true); // one SVG path per chain, not one element per segment
+        for (int c = 0; c < chains.length; c++) {
+            renderer.setSeriesPaint(c, colour(c));
+            renderer.setSeriesStroke(c, new BasicStroke(0.7f));
+        }
+        NumberAxis y = new NumberAxis("value");
+        y.setAutoRangeIncludesZero(false);
+        XYPlot plot = style(new XYPlot(data, new NumberAxis("iteration"), y, renderer));
+        return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, true), WIDTH, 240);
+    }
+
+    /**
+     * Rank plot: the draws of all chains ranked together; each chain's ranks in 20 bins. Well-mixed chains
+     * give flat, overlapping histograms (Vehtari et al. 2021, section 4).
+     */
+    static String ranks(String title, double[][] chains) {
+        int m = chains.length, n = chains[0].length;
+        double[] pooled = new double[m * n];
+        for (int c = 0; c < m; c++) {
+            System.arraycopy(chains[c], 0, pooled, c * n, n);
+        }
+        double[] sorted = pooled.clone();
+        java.util.Arrays.sort(sorted);
+        int bins = 20;
+        XYSeriesCollection data = new XYSeriesCollection();
+        for (int c = 0; c < m; c++) {
+            double[] counts = new double[bins];
+            for (int t = 0; t < n; t++) {
+                int rank = java.util.Arrays.binarySearch(sorted, chains[c][t]);
+                rank = Math.max(0, rank);
+                counts[Math.min(bins - 1, (int) ((long) rank * bins / sorted.length))]++;
+            }
+            XYSeries s = new XYSeries("chain " + (c + 1));
+            for (int b = 0; b < bins; b++) {
+                s.add(b + 0.5, counts[b]);
+                s.add(b + 1.0 - 1e-9, counts[b]);
+            }
+            data.addSeries(s);
+        }
+        XYLineAndShapeRenderer renderer = new XYLineAndShapeRenderer(true, false);
+        renderer.setDrawSeriesLineAsPath(true);
+        for (int c = 0; c < m; c++) {
+            renderer.setSeriesPaint(c, colour(c));
+            renderer.setSeriesStroke(c, new BasicStroke(1.2f));
+        }
+        XYPlot plot = style(new XYPlot(data, new NumberAxis("rank bin (of 20)"), new NumberAxis("draws"), renderer));
+        plot.addRangeMarker(new ValueMarker((double) n / bins, INK, new BasicStroke(1f, BasicStroke.CAP_BUTT,
+                BasicStroke.JOIN_MITER, 10, new float[] {3, 3}, 0)));
+        return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, true), WIDTH, 240);
+    }
+
+    /**
+     * Intervals per labelled row (vertical error bars at positions 0..n-1) with the median as the point,
+     * optionally beside a second set of points (e.g. raw estimates) drawn as hollow markers.
+     */
+    static String intervals(String title, String yLabel, List<String> labels, double[] lo, double[] mid, double[] hi,
+                            double[] raw, String rawLabel, Double reference) {
+        YIntervalSeriesCollection data = new YIntervalSeriesCollection();
+        YIntervalSeries s = new YIntervalSeries("pooled (median and interval)");
+        for (int i = 0; i < labels.size(); i++) {
+            s.add(i, mid[i], lo[i], hi[i]);
+        }
+        data.addSeries(s);
+        XYErrorRenderer renderer = new XYErrorRenderer();
+        renderer.setDrawXError(false);
+        renderer.setErrorPaint(colour(0));
+        renderer.setSeriesPaint(0, colour(0));
+        renderer.setErrorStroke(new BasicStroke(2f));
+        SymbolAxis x = new SymbolAxis(null, labels.toArray(new String[0]));
+        x.setTickLabelFont(new Font("SansSerif", Font.PLAIN, 10));
+        x.setVerticalTickLabels(labels.size() > 8);
+        NumberAxis y = new NumberAxis(yLabel);
+        y.setAutoRangeIncludesZero(false);
+        XYPlot plot = style(new XYPlot(data, x, y, renderer));
+        if (raw != null) {
+            XYSeriesCollection rawData = new XYSeriesCollection();
+            XYSeries r = new XYSeries(rawLabel);
+            for (int i = 0; i < raw.length; i++) {
+                if (Double.isFinite(raw[i])) {
+                    r.add(i + 0.15, raw[i]);
+                }
+            }
+            rawData.addSeries(r);
+            XYLineAndShapeRenderer dots = new XYLineAndShapeRenderer(false, true);
+            dots.setSeriesPaint(0, colour(1));
+            dots.setSeriesShapesFilled(0, false);
+            plot.setDataset(1, rawData);
+            plot.setRenderer(1, dots);
+        }
+        if (reference != null) {
+            plot.addRangeMarker(new ValueMarker(reference, PALETTE[4], new BasicStroke(1f)));
+        }
+        return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, raw != null), WIDTH,
+                labels.size() > 8 ? 340 : HEIGHT);
+    }
+
+    /**
+     * Retention curves: per arm the median with a band over days 1..T, solid up to the last observed day
+     * and dashed beyond (projected), with the observed shares as points.
+     */
+    static String curves(String title, List<String> arms, List<double[][]> bands, List<double[]> observed, int[] lastDay) {
+        YIntervalSeriesCollection data = new YIntervalSeriesCollection();
+        DeviationRenderer renderer = new DeviationRenderer(true, false);
+        int series = 0;
+        for (int k = 0; k < arms.size(); k++) {
+            double[][] band = bands.get(k);
+            YIntervalSeries seen = new YIntervalSeries(arms.get(k) + " (observed days)");
+            YIntervalSeries ahead = new YIntervalSeries(arms.get(k) + " (projected)");
+            for (int t = 1; t < band.length; t++) {
+                if (t <= lastDay[k]) {
+                    seen.add(t, band[t][2], band[t][1], band[t][3]);
+                }
+                if (t >= lastDay[k]) {
+                    ahead.add(t, band[t][2], band[t][1], band[t][3]);
+                }
+            }
+            data.addSeries(seen);
+            data.addSeries(ahead);
+            Color c = colour(k);
+            renderer.setSeriesPaint(series, c);
+            renderer.setSeriesFillPaint(series, c);
+            renderer.setSeriesStroke(series, new BasicStroke(2f));
+            renderer.setSeriesPaint(series + 1, c);
+            renderer.setSeriesFillPaint(series + 1, c);
+            renderer.setSeriesStroke(series + 1, new BasicStroke(2f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER, 10,
+                    new float[] {6, 4}, 0));
+            series += 2;
+        }
+        renderer.setAlpha(0.15f);
+        NumberAxis x = new NumberAxis("days since install");
+        NumberAxis y = new NumberAxis("share of installs");
+        y.setNumberFormatOverride(new java.text.DecimalFormat("0%"));
+        XYPlot plot = style(new XYPlot(data, x, y, renderer));
+        XYSeriesCollection points = new XYSeriesCollection();
+        XYLineAndShapeRenderer dots = new XYLineAndShapeRenderer(false, true);
+        for (int k = 0; k < arms.size(); k++) {
+            XYSeries s = new XYSeries(arms.get(k) + " observed");
+            double[] o = observed.get(k);
+            for (int t = 1; t < o.length; t++) {
+                if (Double.isFinite(o[t])) {
+                    s.add(t, o[t]);
+                }
+            }
+            points.addSeries(s);
+            dots.setSeriesPaint(k, colour(k));
+        }
+        plot.setDataset(1, points);
+        plot.setRenderer(1, dots);
+        return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, true), WIDTH, 340);
+    }
+}

@@ -1,0 +1,365 @@
+package dev.cairn.cli.report;
+
+import dev.cairn.models.FitOutcome;
+import dev.cairn.models.result.ArmSummary;
+import dev.cairn.models.result.Check;
+import dev.cairn.models.result.Comparison;
+import dev.cairn.models.result.DiagnosticsSummary;
+import dev.cairn.models.result.FitResult;
+import dev.cairn.models.result.Interval;
+import dev.cairn.models.result.PooledResult;
+import dev.cairn.models.result.Result;
+import dev.cairn.models.result.RetentionResult;
+import dev.cairn.models.result.SegmentSummary;
+import dev.cairn.samplers.Draws;
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+
+/**
+ * A single-file HTML report of a fit: header with the question, data, model, sampler and verdict;
+ * posterior plots per arm; comparisons; convergence (trace and rank plots of the slowest-mixing
+ * quantities and the full table); predictive checks; segments, pooled effects or retention curves when
+ * the model has them. Charts are inline SVG; no scripts, remote fonts or styles. The layout and colours
+ * are cairn's own.
+ */
+public final class HtmlReport {
+    static final String STYLE = """
+            body{font-family:Georgia,'DejaVu Serif',serif;color:#22303a;margin:0;background:#f6f4ef}
+            header{background:#1b6f8a;color:#fdfbf6;padding:1.2em 2em}
+            header h1{margin:.1em 0 .3em;font-size:1.5em}
+            header .meta{font-family:'DejaVu Sans Mono',monospace;font-size:.85em;opacity:.9}
+            .verdict{display:inline-block;padding:.35em .8em;border-radius:3px;font-weight:bold;margin:.5em 0}
+            .ok{background:#e4efd6;color:#2f4d12}.bad{background:#f6dcdc;color:#7a1d2a}
+            .cautions{font-size:.85em;max-width:60em;opacity:.95}
+            main{padding:1em 2em 3em;max-width:1250px}
+            section{background:#fff;border-left:4px solid #d07a2c;margin:1.4em 0;padding:.6em 1.2em 1em}
+            h2{font-size:1.15em;margin:.4em 0 .6em;color:#1b6f8a}
+            .grid{display:flex;flex-wrap:wrap;gap:12px}
+            .grid svg{border:1px solid #e6e1d6}
+            table{border-collapse:collapse;font-size:.85em;margin:.6em 0;font-family:'DejaVu Sans',sans-serif}
+            th,td{padding:.25em .7em;border-bottom:1px solid #e6e1d6;text-align:right}
+            th:first-child,td:first-child{text-align:left}
+            .flag{color:#b23a48;font-weight:bold}
+            p.note{font-size:.85em;color:#54626f}
+            """;
+
+    private HtmlReport() {
+    }
+
+    public static String render(FitOutcome outcome, String source) {
+        FitResult r = outcome.result();
+        StringBuilder sb = new StringBuilder(1 << 16);
+        sb.append("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>")
+                .append(esc("cairn report: " + (r.title() != null ? r.title() : r.model()))).append("</title><style>")
+                .append(STYLE).append("</style></head><body>\n");
+        header(sb, r, source);
+        sb.append("<main>\n");
+        if (r instanceof Result spend) {
+            spendSections(sb, spend, outcome);
+        } else if (r instanceof PooledResult pooled) {
+            pooledSections(sb, pooled, outcome.draws());
+        } else if (r instanceof RetentionResult retention) {
+            retentionSections(sb, retention, outcome);
+        }
+        diagnostics(sb, r.diagnostics(), outcome.draws());
+        sb.append("</main></body></html>\n");
+        return sb.toString();
+    }
+
+    private static void header(StringBuilder sb, FitResult r, String source) {
+        sb.append("<header><h1>").append(esc(r.title() != null ? r.title() : "cairn: " + r.model())).append("</h1>");
+        sb.append("<div class=\"meta\">data ").append(esc(source)).append(" &middot; model ").append(esc(r.model()))
+                .append(" &middot; sampler ").append(esc(r.run().method())).append(", ").append(r.run().chains())
+                .append(" chains &times; ").append(r.run().draws()).append(" draws, warmup ").append(r.run().warmup())
+                .append(" &middot; seed ").append(r.run().seed()).append(" &middot; ").append(r.run().seconds())
+                .append(" s &middot; cairn ").append(esc(r.run().version())).append("</div>");
+        if (r.converged()) {
+            sb.append("<div class=\"verdict ok\" id=\"verdict\">Converged: every R-hat is below ")
+                    .append(r.diagnostics().thresholdRhat()).append(" and every bulk- and tail-ESS reaches ")
+                    .append(fmt(r.diagnostics().thresholdEssPerChain() * r.run().chains(), 0))
+                    .append(". The numbers below can be used.</div>");
+        } else {
+            sb.append("<div class=\"verdict bad\" id=\"verdict\">Not converged: do not use these numbers for decisions yet.")
+                    .append(" See the convergence section for the reasons.</div>");
+        }
+        sb.append("<div class=\"cautions\">");
+        for (String c : r.cautions()) {
+            sb.append("<p>").append(esc(c)).append("</p>");
+        }
+        sb.append("</div></header>\n");
+    }
+
+    private static void spendSections(StringBuilder sb, Result r, FitOutcome outcome) {
+        Draws d = outcome.draws();
+        boolean segmented = r.segments() != null;
+        List<String> arms = new ArrayList<>(r.arms().keySet());
+        boolean spend = r.arms().values().iterator().next().arpu() != null;
+        List<String> metrics = spend ? List.of("arpu", "payerRate", "arppu") : List.of("payerRate");
+        sb.append("<section id=\"arms\"><h2>Per arm").append(segmented ? " (population: segments weighted by users)" : "")
+                .append("</h2><div class=\"grid\">");
+        for (String metric : metrics) {
+            List<double[]> draws = new ArrayList<>();
+            for (String a : arms) {
+                draws.add(d.pooled(column(metric, segmented ? "population/" + a : a)));
+            }
+            sb.append(Charts.histograms("Posterior of " + label(metric), label(metric), arms, draws, null));
+        }
+        sb.append("</div><table><tr><th>arm</th><th>users</th><th>payers</th>");
+        for (String metric : metrics) {
+            sb.append("<th>").append(label(metric)).append(" median [lo, hi]</th>");
+        }
+        sb.append("</tr>");
+        for (Map.Entry<String, ArmSummary> e : r.arms().entrySet()) {
+            ArmSummary a = e.getValue();
+            sb.append("<tr><td>").append(esc(e.getKey())).append(e.getKey().equals(r.control()) ? " (control)" : "")
+                    .append("</td><td>").append(a.users()).append("</td><td>").append(a.payers()).append("</td>");
+            for (String metric : metrics) {
+                Interval i = metric.equals("arpu") ? a.arpu() : metric.equals("payerRate") ? a.payerRate() : a.arppu();
+                sb.append("<td>").append(interval(i)).append("</td>");
+            }
+            sb.append("</tr>");
+        }
+        sb.append("</table></section>\n");
+
+        sb.append("<section id=\"comparisons\"><h2>Against ").append(esc(r.control())).append("</h2><div class=\"grid\">");
+        for (Comparison c : r.comparisons()) {
+            if (!c.metric().equals(metrics.get(0)) || "typical-segment".equals(c.scope())) {
+                continue;
+            }
+            String armKey = segmented ? "population/" + c.arm() : c.arm();
+            String controlKey = segmented ? "population/" + c.control() : c.control();
+            double[] x = d.pooled(column(c.metric(), armKey));
+            double[] base = d.pooled(column(c.metric(), controlKey));
+            double[] lift = new double[x.length];
+            for (int i = 0; i < x.length; i++) {
+                lift[i] = x[i] / base[i] - 1;
+            }
+            sb.append(Charts.lift(String.format(Locale.ROOT, "%s %s lift: P(above) %.3f", c.arm(), label(c.metric()),
+                    c.probAbove()), lift, c.lift().lo(), c.lift().hi()));
+        }
+        sb.append("</div><table><tr><th>arm</th><th>metric</th><th>scope</th><th>lift median [lo, hi]</th>"
+                + "<th>P(above)</th><th>expected loss</th></tr>");
+        for (Comparison c : r.comparisons()) {
+            sb.append("<tr><td>").append(esc(c.arm())).append("</td><td>").append(label(c.metric())).append("</td><td>")
+                    .append(c.scope() == null ? "" : esc(c.scope())).append("</td><td>").append(pct(c.lift()))
+                    .append("</td><td>").append(fmt(c.probAbove(), 3)).append("</td><td>").append(sig(c.expectedLoss()))
+                    .append("</td></tr>");
+        }
+        sb.append("</table><table><tr><th>P(best)</th>");
+        for (String a : arms) {
+            sb.append("<th>").append(esc(a)).append("</th>");
+        }
+        sb.append("</tr>");
+        for (Map.Entry<String, Map<String, Double>> e : r.probBest().entrySet()) {
+            sb.append("<tr><td>").append(label(e.getKey())).append("</td>");
+            for (String a : arms) {
+                sb.append("<td>").append(fmt(e.getValue().get(a), 3)).append("</td>");
+            }
+            sb.append("</tr>");
+        }
+        sb.append("</table></section>\n");
+
+        if (!r.checks().isEmpty()) {
+            sb.append("<section id=\"checks\"><h2>Posterior predictive checks</h2><p class=\"note\">Each panel: the "
+                    + "statistic in data sets replicated from the posterior; the dashed line is the observed value. A "
+                    + "line far in a tail means the model does not reproduce it.</p><div class=\"grid\">");
+            for (Check c : r.checks()) {
+                Object rep = outcome.figures().get(c.arm() + "/" + c.statistic());
+                if (rep instanceof double[] values) {
+                    sb.append(Charts.histograms(String.format(Locale.ROOT, "%s: %s (p = %.3f)%s", c.arm(), c.statistic(),
+                                    c.pValue(), c.misfit() ? " MISFIT" : ""), c.statistic(), List.of("replicated"),
+                            List.of(values), new double[] {c.observed()}));
+                }
+            }
+            sb.append("</div></section>\n");
+        }
+        if (segmented) {
+            sb.append("<section id=\"segments\"><h2>Segments: pooled lift beside each segment's own data</h2>"
+                    + "<p class=\"note\">Intervals: pooled estimates; hollow points: the raw lift from the segment alone. "
+                    + "Small segments move toward the overall lift (shrinkage).</p><div class=\"grid\">");
+            for (String a : arms) {
+                if (a.equals(r.control())) {
+                    continue;
+                }
+                List<String> labels = new ArrayList<>();
+                List<double[]> rows = new ArrayList<>();
+                for (Map.Entry<String, SegmentSummary> e : r.segments().entrySet()) {
+                    for (Comparison c : e.getValue().comparisons()) {
+                        if (c.arm().equals(a) && c.metric().equals(metrics.get(0))) {
+                            labels.add(e.getKey());
+                            rows.add(new double[] {c.lift().lo(), c.lift().median(), c.lift().hi(),
+                                c.rawLift() == null ? Double.NaN : c.rawLift()});
+                        }
+                    }
+                }
+                double[] lo = rows.stream().mapToDouble(x -> x[0]).toArray();
+                double[] mid = rows.stream().mapToDouble(x -> x[1]).toArray();
+                double[] hi = rows.stream().mapToDouble(x -> x[2]).toArray();
+                double[] raw = rows.stream().mapToDouble(x -> x[3]).toArray();
+                sb.append(Charts.intervals(a + ": " + label(metrics.get(0)) + " lift by segment", "lift", labels, lo, mid, hi,
+                        raw, "raw (segment alone)", 0.0));
+            }
+            sb.append("</div></section>\n");
+        }
+    }
+
+    private static void pooledSections(StringBuilder sb, PooledResult r, Draws d) {
+        List<String> labels = new ArrayList<>(r.effects().keySet());
+        double[] lo = new double[labels.size()], mid = new double[labels.size()], hi = new double[labels.size()];
+        double[] raw = new double[labels.size()];
+        for (int i = 0; i < labels.size(); i++) {
+            Interval e = r.effects().get(labels.get(i));
+            lo[i] = e.lo();
+            mid[i] = e.median();
+            hi[i] = e.hi();
+            raw[i] = r.raw().get(labels.get(i)).estimate();
+        }
+        sb.append("<section id=\"effects\"><h2>Effects: pooled beside as given</h2><div class=\"grid\">")
+                .append(Charts.intervals("Effects after pooling", "effect", labels, lo, mid, hi, raw, "as given", r.mu().median()))
+                .append(Charts.histograms("Population mean mu and a new effect", "effect", List.of("mu", "new effect"),
+                        List.of(d.pooled("mu"), d.pooled("predictive")), new double[] {0}))
+                .append(Charts.histograms("Between-effect sd tau", "tau", List.of("tau"), List.of(d.pooled("tau")), null))
+                .append("</div><table><tr><th>effect</th><th>as given</th><th>se</th><th>pooled median [lo, hi]</th>"
+                        + "<th>P(&gt; 0)</th></tr>");
+        for (String name : labels) {
+            sb.append("<tr><td>").append(esc(name)).append("</td><td>").append(sig(r.raw().get(name).estimate()))
+                    .append("</td><td>").append(sig(r.raw().get(name).se())).append("</td><td>")
+                    .append(interval(r.effects().get(name))).append("</td><td>").append(fmt(r.probPositive().get(name), 3))
+                    .append("</td></tr>");
+        }
+        sb.append("</table><p class=\"note\">Informed prior for the next test: normal(mean ")
+                .append(sig(r.predictive().mean())).append(", sd ").append(sig(r.predictive().sd())).append(").</p></section>\n");
+    }
+
+    private static void retentionSections(StringBuilder sb, RetentionResult r, FitOutcome outcome) {
+        List<String> arms = new ArrayList<>(r.arms().keySet());
+        List<double[][]> bands = new ArrayList<>();
+        List<double[]> observed = new ArrayList<>();
+        int[] last = new int[arms.size()];
+        for (int k = 0; k < arms.size(); k++) {
+            bands.add((double[][]) outcome.figures().get("curve/" + arms.get(k)));
+            observed.add((double[]) outcome.figures().get("observed/" + arms.get(k)));
+            last[k] = (int) ((double[]) outcome.figures().get("lastDay/" + arms.get(k)))[0];
+        }
+        sb.append("<section id=\"retention\"><h2>Retention curves (").append(esc(r.curve())).append(")</h2>")
+                .append("<p class=\"note\">Install-weighted over cohorts: median and ").append(fmt(100 * r.interval(), 0))
+                .append("% band; solid up to the last day any cohort reached, dashed beyond (projected); points: observed.</p>")
+                .append("<div class=\"grid\">").append(Charts.curves("Retention by day", arms, bands, observed, last));
+        int drift = r.days().contains(7) ? 7 : r.days().get(0);
+        for (String a : arms) {
+            List<String> labels = new ArrayList<>();
+            List<Interval> values = new ArrayList<>();
+            for (Map<String, Object> c : r.cohorts()) {
+                if (a.equals(c.get("arm"))) {
+                    labels.add(String.valueOf(c.get("cohort")));
+                    values.add((Interval) c.get("d" + drift));
+                }
+            }
+            sb.append(Charts.intervals(a + ": D" + drift + " by install cohort (drift)", "D" + drift, labels,
+                    values.stream().mapToDouble(Interval::lo).toArray(), values.stream().mapToDouble(Interval::median).toArray(),
+                    values.stream().mapToDouble(Interval::hi).toArray(), null, null, null));
+        }
+        if (r.ltv() != null) {
+            List<String> labels = new ArrayList<>();
+            List<Interval> values = new ArrayList<>();
+            for (String a : arms) {
+                labels.add(a);
+                values.add((Interval) r.ltv().get(a));
+            }
+            sb.append(Charts.intervals("LTV over " + r.ltv().get("horizon") + " days", "LTV", labels,
+                    values.stream().mapToDouble(Interval::lo).toArray(), values.stream().mapToDouble(Interval::median).toArray(),
+                    values.stream().mapToDouble(Interval::hi).toArray(), null, null, null));
+        }
+        sb.append("</div><table><tr><th>arm</th><th>metric</th><th>lift median [lo, hi]</th><th>P(above)</th>"
+                + "<th>expected loss</th></tr>");
+        for (Comparison c : r.comparisons()) {
+            sb.append("<tr><td>").append(esc(c.arm())).append("</td><td>").append(esc(c.metric().toUpperCase(Locale.ROOT)))
+                    .append("</td><td>").append(pct(c.lift())).append("</td><td>").append(fmt(c.probAbove(), 3))
+                    .append("</td><td>").append(sig(c.expectedLoss())).append("</td></tr>");
+        }
+        sb.append("</table></section>\n");
+    }
+
+    private static void diagnostics(StringBuilder sb, DiagnosticsSummary diag, Draws d) {
+        sb.append("<section id=\"diagnostics\"><h2>Convergence</h2>");
+        if (!diag.reasons().isEmpty()) {
+            sb.append("<p class=\"flag\">Not converged because:</p><ul>");
+            diag.reasons().stream().limit(40).forEach(x -> sb.append("<li>").append(esc(x)).append("</li>"));
+            sb.append("</ul>");
+        }
+        List<DiagnosticsSummary.Parameter> slowest = new ArrayList<>(diag.parameters());
+        slowest.removeIf(p -> p.essBulk() == null);
+        slowest.sort(Comparator.comparingDouble(DiagnosticsSummary.Parameter::essBulk));
+        sb.append("<p class=\"note\">Trace and rank plots of the ").append(Math.min(3, slowest.size()))
+                .append(" slowest-mixing quantities (lowest bulk-ESS). Rank plots of well-mixed chains are flat and overlap.</p>")
+                .append("<div class=\"grid\">");
+        for (DiagnosticsSummary.Parameter p : slowest.subList(0, Math.min(3, slowest.size()))) {
+            double[][] chains = d.column(p.name());
+            sb.append(Charts.trace("Trace: " + p.name(), chains)).append(Charts.ranks("Ranks: " + p.name(), chains));
+        }
+        sb.append("</div><table><tr><th>quantity</th><th>R-hat</th><th>bulk-ESS</th><th>tail-ESS</th><th>MCSE of mean</th></tr>");
+        double need = diag.thresholdEssPerChain();
+        for (DiagnosticsSummary.Parameter p : diag.parameters()) {
+            boolean bad = p.rhat() != null && p.rhat() >= diag.thresholdRhat();
+            sb.append("<tr").append(bad ? " class=\"flag\"" : "").append("><td>").append(esc(p.name())).append("</td><td>")
+                    .append(p.rhat() == null ? "-" : fmt(p.rhat(), 3)).append("</td><td>")
+                    .append(p.essBulk() == null ? "-" : fmt(p.essBulk(), 0)).append("</td><td>")
+                    .append(p.essTail() == null ? "-" : fmt(p.essTail(), 0)).append("</td><td>")
+                    .append(p.mcseMean() == null ? "-" : sig(p.mcseMean())).append("</td></tr>");
+        }
+        sb.append("</table><p class=\"note\">Thresholds: R-hat &lt; ").append(diag.thresholdRhat())
+                .append(", bulk- and tail-ESS &ge; ").append(fmt(need, 0)).append(" per chain.</p></section>\n");
+    }
+
+    static String column(String metric, String scopeOrArm) {
+        return metric + "[" + scopeOrArm + "]";
+    }
+
+    static String label(String metric) {
+        return switch (metric) {
+            case "arpu" -> "ARPU";
+            case "arppu" -> "ARPPU";
+            case "payerRate" -> "payer rate";
+            default -> metric;
+        };
+    }
+
+    static String esc(String s) {
+        if (s == null) {
+            return "";
+        }
+        StringBuilder out = new StringBuilder(s.length());
+        for (char c : s.toCharArray()) {
+            switch (c) {
+                case '<' -> out.append("&lt;");
+                case '>' -> out.append("&gt;");
+                case '&' -> out.append("&amp;");
+                case '"' -> out.append("&quot;");
+                default -> out.append(c);
+            }
+        }
+        return out.toString();
+    }
+
+    static String fmt(double v, int decimals) {
+        return String.format(Locale.ROOT, "%." + decimals + "f", v);
+    }
+
+    static String sig(double v) {
+        if (v == 0 || !Double.isFinite(v)) {
+            return String.valueOf(v);
+        }
+        return String.format(Locale.ROOT, "%.4g", v);
+    }
+
+    static String interval(Interval i) {
+        return sig(i.median()) + " [" + sig(i.lo()) + ", " + sig(i.hi()) + "]";
+    }
+
+    static String pct(Interval i) {
+        return String.format(Locale.ROOT, "%+.1f%% [%+.1f%%, %+.1f%%]", 100 * i.median(), 100 * i.lo(), 100 * i.hi());
+    }
+}
