@@ -71,7 +71,10 @@ public final class HtmlReport {
 
     private static void header(StringBuilder sb, FitResult r, String source) {
         sb.append("<header><h1>").append(esc(r.title() != null ? r.title() : "cairn: " + r.model())).append("</h1>");
-        sb.append("<div class=\"meta\">data ").append(esc(source)).append(" &middot; model ").append(esc(r.model()))
+        String size = r.data().users() > 0 ? String.format(Locale.ROOT, "%,d users", r.data().users())
+                : String.format(Locale.ROOT, "%,d rows", r.data().rows());
+        sb.append("<div class=\"meta\">spec ").append(esc(source)).append(" &middot; data ").append(esc(r.data().source()))
+                .append(" (").append(size).append(") &middot; model ").append(esc(r.model()))
                 .append(" &middot; sampler ").append(esc(r.run().method())).append(", ").append(r.run().chains())
                 .append(" chains &times; ").append(r.run().draws()).append(" draws, warmup ").append(r.run().warmup())
                 .append(" &middot; seed ").append(r.run().seed()).append(" &middot; ").append(r.run().seconds())

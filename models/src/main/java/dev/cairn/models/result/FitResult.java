@@ -10,6 +10,8 @@ public sealed interface FitResult permits Result, PooledResult, RetentionResult 
 
     boolean converged();
 
+    DataInfo data();
+
     DiagnosticsSummary diagnostics();
 
     Run run();

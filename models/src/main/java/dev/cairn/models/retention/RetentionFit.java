@@ -145,20 +145,21 @@ public final class RetentionFit {
                 new Run("metropolis-within-gibbs", settings.chains(), settings.warmup(), settings.draws(), settings.thin(),
                         settings.seed(), seconds, Version.get()),
                 priors, warnings, Result.CAUTIONS);
-        return new FitOutcome(result, draws, curveBands(internal, model, data, days, level));
+        return new FitOutcome(result, draws, curveBands(internal, model, data, days, level, horizon));
     }
 
     /**
      * For plots: per arm, the install-weighted curve's {mean, lo, median, hi} at every day 1..T (T the
-     * largest of the requested and observed days), the observed share per day pooled over the cohorts that
+     * largest of the LTV horizon, the requested days and half again the last observed day), the observed share per day pooled over the cohorts that
      * reached it, and the last day any cohort reached.
      */
     static java.util.Map<String, Object> curveBands(Draws internal, RetentionPosterior m, CohortDays data, List<Integer> days,
-                                                    double level) {
-        int maxDay = days.stream().mapToInt(Integer::intValue).max().orElse(30);
+                                                    double level, int horizon) {
+        // Plot beyond the data: to the LTV horizon, the largest requested day, or half again the last observed day.
+        int maxDay = Math.max(horizon, days.stream().mapToInt(Integer::intValue).max().orElse(30));
         for (int c = 0; c < data.cohorts().size(); c++) {
             for (int k = 0; k < data.arms().size(); k++) {
-                maxDay = Math.max(maxDay, data.lastObservedDay(c, k));
+                maxDay = Math.max(maxDay, data.lastObservedDay(c, k) * 3 / 2);
             }
         }
         int total = internal.chains() * internal.iterations();
