@@ -45,6 +45,23 @@ public final class FitSupport {
         return Diagnostics.of(draws.names(), columns, thresholds(spec.convergence()));
     }
 
+    /**
+     * The control arm: the spec's, or the first in sorted order; at least two arms are needed. Used by
+     * every model that compares arms.
+     */
+    public static String control(Spec spec, List<String> arms, String source) {
+        if (arms.size() < 2) {
+            throw new InputException(source + ": found " + arms.size() + " arm (" + String.join(", ", arms)
+                    + "); a comparison needs at least two");
+        }
+        String control = spec.control() == null ? arms.get(0) : spec.control();
+        if (!arms.contains(control)) {
+            throw new InputException("/control: arm '" + control + "' is not in the data; arms found: "
+                    + String.join(", ", arms));
+        }
+        return control;
+    }
+
     /** The warning put first in a result that did not converge. */
     public static String notConverged(DiagnosticsReport report) {
         return "NOT converged: " + String.join("; ", report.reasons())

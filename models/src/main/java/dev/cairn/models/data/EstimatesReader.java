@@ -38,19 +38,7 @@ final class EstimatesReader {
                 {s + " IS NULL OR isnan(" + s + ") OR isinf(" + s + ")", se, "se must be a finite number"},
                 {s + " <= 0", se, "se must be > 0"},
             };
-            for (String[] rule : rules) {
-                long count;
-                try (Statement st = db.createStatement(); ResultSet r = st.executeQuery(
-                        "SELECT count(*) FROM " + source.relation + " WHERE " + rule[0])) {
-                    r.next();
-                    count = r.getLong(1);
-                } catch (SQLException e) {
-                    throw Sql.readError(source.name, e);
-                }
-                if (count > 0) {
-                    throw source.bad(db, rule[0], rule[1], count, rule[2]);
-                }
-            }
+            source.check(db, rules);
             String query = "SELECT " + n + " AS name, " + y + " AS estimate, " + s + " AS se FROM " + source.relation;
             List<String> names = new ArrayList<>();
             List<double[]> values = new ArrayList<>();

@@ -210,6 +210,26 @@ final class Source {
     }
 
     /**
+     * Refuses the data at the first rule that some row breaks: each rule is {SQL condition that marks a bad
+     * row, column to name, what is wrong}.
+     */
+    void check(Connection db, String[][] rules) {
+        for (String[] rule : rules) {
+            long count;
+            try (Statement s = db.createStatement(); ResultSet r = s.executeQuery(
+                    "SELECT count(*) FROM " + relation + " WHERE " + rule[0])) {
+                r.next();
+                count = r.getLong(1);
+            } catch (SQLException e) {
+                throw Sql.readError(name, e);
+            }
+            if (count > 0) {
+                throw bad(db, rule[0], rule[1], count, rule[2]);
+            }
+        }
+    }
+
+    /**
      * The error for rows matching {@code condition}: counts them and names the first few by line (files;
      * the header is line 1) or by JSON pointer (inline rows).
      */

@@ -301,21 +301,7 @@ public final class SpendDataReader {
             {hasSpend ? "(" + m + " = 0 AND (coalesce(" + a + ", 0) <> 0 OR coalesce(" + b + ", 0) <> 0))" : "false",
                 data.column("logSpendSum", LOG_SUM), "log-spend sums must be 0 where payers = 0"},
         };
-        try {
-            for (String[] rule : rules) {
-                long count;
-                try (Statement s = db.createStatement(); ResultSet r = s.executeQuery(
-                        "SELECT count(*) FROM " + source.relation + " WHERE " + rule[0])) {
-                    r.next();
-                    count = r.getLong(1);
-                }
-                if (count > 0) {
-                    throw source.bad(db, rule[0], rule[1], count, rule[2]);
-                }
-            }
-        } catch (SQLException e) {
-            throw Sql.readError(source.name, e);
-        }
+        source.check(db, rules);
         String query = """
                 SELECT arm,
                        sum(users) AS users,

@@ -41,11 +41,9 @@ public final class RetentionFit {
         }
         CohortDays data = CohortDays.read(spec.data(), baseDir, survival);
         List<String> arms = data.arms();
-        String control = spec.control() == null ? arms.get(0) : spec.control();
-        if (!arms.contains(control)) {
-            throw new InputException("/control: arm '" + control + "' is not in the data; arms found: "
-                    + String.join(", ", arms));
-        }
+        // One arm (no arm column) is a plain curve fit with nothing to compare; otherwise arms need a control.
+        String control = arms.size() == 1 && (spec.control() == null || spec.control().equals(arms.get(0)))
+                ? arms.get(0) : FitSupport.control(spec, arms, data.source());
         if ("exact".equals(spec.samplerOrDefault().method())) {
             throw new InputException("/sampler/method: retention has no closed-form posterior; use 'auto'");
         }

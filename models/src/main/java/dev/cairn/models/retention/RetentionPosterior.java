@@ -272,22 +272,15 @@ public final class RetentionPosterior {
     }
 
     final class SweepUpdater implements Step.Updater {
-        private final Slice.Widths widths = new Slice.Widths(size, 0.5);
-        private final double[] result = new double[2];
-        private UniformRandomProvider rng;
-        private boolean adapt;
+        private final dev.cairn.models.LocalSlice local = new dev.cairn.models.LocalSlice(size, 0.5);
 
         private void slice(double[] x, int i, DoubleUnaryOperator f) {
-            double x0 = x[i];
-            Slice.sample(f, x0, f.applyAsDouble(x0), widths.get(i), 64, rng, result);
-            x[i] = result[0];
-            widths.record(i, result[0] - x0, adapt);
+            local.update(x, i, f);
         }
 
         @Override
         public void update(ChainState state, UniformRandomProvider r, boolean adaptNow) {
-            this.rng = r;
-            this.adapt = adaptNow;
+            local.begin(r, adaptNow);
             double[] x = state.point();
             for (int c = 0; c < cohorts; c++) {
                 int cc = c;
@@ -410,9 +403,7 @@ public final class RetentionPosterior {
                     }
                     return lp;
                 };
-                double f0 = density.applyAsDouble(0);
-                Slice.sample(density, 0, f0, 0.1, 64, rng, result);
-                apply(x, first, offsets, base, offsetBase, result[0], withOffsets);
+                apply(x, first, offsets, base, offsetBase, local.move(density, 0, 0.1), withOffsets);
             }
         }
 

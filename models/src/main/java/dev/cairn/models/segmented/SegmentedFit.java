@@ -41,15 +41,7 @@ public final class SegmentedFit {
         SegmentedSpendData data = SpendDataReader.readSegmented(spec.data(), baseDir, spec.isStrict());
         List<String> arms = data.arms();
         List<String> segments = data.segments();
-        if (arms.size() < 2) {
-            throw new InputException(data.source() + ": found " + arms.size() + " arm (" + String.join(", ", arms)
-                    + "); a comparison needs at least two");
-        }
-        String control = spec.control() == null ? arms.get(0) : spec.control();
-        if (!arms.contains(control)) {
-            throw new InputException("/control: arm '" + control + "' is not in the data; arms found: "
-                    + String.join(", ", arms));
-        }
+        String control = FitSupport.control(spec, arms, data.source());
         if ("exact".equals(spec.samplerOrDefault().method())) {
             throw new InputException("/sampler/method: segmented-spend has no closed-form posterior; use 'auto'");
         }

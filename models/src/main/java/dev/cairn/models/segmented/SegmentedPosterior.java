@@ -301,17 +301,14 @@ public final class SegmentedPosterior {
     }
 
     final class SweepUpdater implements Step.Updater {
-        private final Slice.Widths widths = new Slice.Widths(at.size, 1.0);
+        private final dev.cairn.models.LocalSlice local = new dev.cairn.models.LocalSlice(at.size, 1.0);
         private final org.ejml.data.DMatrixRMaj blockQ = new org.ejml.data.DMatrixRMaj(arms, arms);
         private final org.ejml.data.DMatrixRMaj blockL = new org.ejml.data.DMatrixRMaj(arms, arms);
         private final double[] blockH = new double[arms];
         private final org.ejml.interfaces.decomposition.CholeskyDecomposition_F64<org.ejml.data.DMatrixRMaj> cholesky =
                 org.ejml.dense.row.factory.DecompositionFactory_DDRM.chol(arms, true);
-        private final double[] result = new double[2];
         private UniformRandomProvider boundTo;
         private ZigguratSampler.NormalizedGaussian gaussian;
-        private UniformRandomProvider rng;
-        private boolean adapt;
 
         @Override
         public void update(ChainState state, UniformRandomProvider r, boolean adaptNow) {
@@ -319,18 +316,14 @@ public final class SegmentedPosterior {
                 gaussian = ZigguratSampler.NormalizedGaussian.of(r);
                 boundTo = r;
             }
-            this.rng = r;
-            this.adapt = adaptNow;
+            local.begin(r, adaptNow);
             double[] x = state.point();
             sweep(x);
             state.refresh();
         }
 
         private void slice(double[] x, int i, DoubleUnaryOperator f) {
-            double x0 = x[i];
-            Slice.sample(f, x0, f.applyAsDouble(x0), widths.get(i), 64, rng, result);
-            x[i] = result[0];
-            widths.record(i, result[0] - x0, adapt);
+            local.update(x, i, f);
         }
 
         private double normalDraw(double mean, double precision) {

@@ -32,15 +32,7 @@ public final class SpendFit {
         long start = System.nanoTime();
         SpendData data = SpendDataReader.read(spec.data(), baseDir, spec.isStrict());
         List<String> arms = data.armNames();
-        if (arms.size() < 2) {
-            throw new InputException(data.source() + ": found " + arms.size() + " arm (" + String.join(", ", arms)
-                    + "); a comparison needs at least two");
-        }
-        String control = spec.control() == null ? arms.get(0) : spec.control();
-        if (!arms.contains(control)) {
-            throw new InputException("/control: arm '" + control + "' is not in the data; arms found: "
-                    + String.join(", ", arms));
-        }
+        String control = FitSupport.control(spec, arms, data.source());
         SpendPriors priors = spec.priorsOrEmpty().fromHistory() != null
                 ? HistoryPriors.fit(spec.priorsOrEmpty().fromHistory().path(), baseDir)
                 : SpendPriors.fromSpec(spec.priorsOrEmpty());
