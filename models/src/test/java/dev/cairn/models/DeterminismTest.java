@@ -59,4 +59,43 @@ class DeterminismTest {
         assertEquals(one[1], four[1]);
         assertNotEquals(one[1], run(spec("exact", 8), 2)[1]);
     }
+
+    /** The hand-built sweeps of the other models keep their state per chain too. */
+    @Test
+    void segmentedPooledAndRetentionAreIdenticalOnOneAndThreeThreads() throws IOException {
+        StringBuilder seg = new StringBuilder("segment,arm,users,payers,log_spend_sum,log_spend_sq_sum\n");
+        for (int j = 0; j < 5; j++) {
+            seg.append("s").append(j).append(",A,800,").append(20 + j).append(',').append(30.0 + j).append(',').append(80.0 + 3 * j).append('\n');
+            seg.append("s").append(j).append(",B,800,").append(24 + j).append(',').append(37.0 + j).append(',').append(95.0 + 3 * j).append('\n');
+        }
+        Files.writeString(dir.resolve("seg.csv"), seg);
+        StringBuilder ret = new StringBuilder("cohort,arm,day,installs,active\n");
+        for (int c = 0; c < 4; c++) {
+            for (String arm : new String[] {"A", "B"}) {
+                int[] days = {1, 7, 14};
+                for (int i = 0; i < 3 - (c == 3 ? 1 : 0); i++) {
+                    ret.append("2026-0").append(c + 1).append("-01,").append(arm).append(',').append(days[i]).append(",500,")
+                            .append(200 - 50 * i + (arm.equals("B") ? 10 : 0) + c).append('\n');
+                }
+            }
+        }
+        Files.writeString(dir.resolve("ret.csv"), ret);
+        String[] specs = {
+            "{\"model\": \"segmented-spend\", \"data\": {\"path\": \"seg.csv\", \"layout\": \"summary\"},"
+                + " \"sampler\": {\"chains\": 3, \"warmup\": 100, \"draws\": 100, \"seed\": 5}}",
+            "{\"model\": \"pooled-effects\", \"data\": {\"layout\": \"estimates\", \"rows\": [{\"name\": \"a\","
+                + " \"estimate\": 0.1, \"se\": 0.05}, {\"name\": \"b\", \"estimate\": -0.02, \"se\": 0.08}]},"
+                + " \"sampler\": {\"chains\": 3, \"warmup\": 100, \"draws\": 100, \"seed\": 5}}",
+            "{\"model\": \"retention\", \"curve\": \"survival\", \"data\": {\"path\": \"ret.csv\", \"layout\": \"cohort-days\"},"
+                + " \"ltv\": {\"horizon\": 30, \"revenuePerActiveDay\": 0.2},"
+                + " \"sampler\": {\"chains\": 3, \"warmup\": 50, \"draws\": 50, \"seed\": 5}}"};
+        for (int i = 0; i < specs.length; i++) {
+            Path spec = dir.resolve("model-" + i + ".json");
+            Files.writeString(spec, specs[i]);
+            String[] one = run(spec, 1);
+            String[] three = run(spec, 3);
+            assertEquals(one[0], three[0], specs[i]);
+            assertEquals(one[1], three[1], specs[i]);
+        }
+    }
 }
