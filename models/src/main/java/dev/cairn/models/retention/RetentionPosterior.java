@@ -136,8 +136,17 @@ public final class RetentionPosterior {
         return Math.max(surv, 0);
     }
 
-    /** Log likelihood of cohort c, arm k given the cohort's level and slope (before arm offsets). */
+    /**
+     * Log likelihood of cohort c, arm k given the cohort's level and slope (before arm offsets). The
+     * beta-binomial terms that depend on kappa alone (log Gamma(kappa) - log Gamma(n + kappa)) are left
+     * out unless {@code kappaTerms}: they are constant in every update but kappa's, and cost a third of the
+     * log-Gamma calls.
+     */
     double cell(double[] x, int c, int k, double lv, double sl) {
+        return cell(x, c, k, lv, sl, false);
+    }
+
+    double cell(double[] x, int c, int k, double lv, double sl, boolean kappaTerms) {
         if (n[c][k] == 0 || days[c][k].length == 0) {
             return 0;
         }
@@ -154,8 +163,10 @@ public final class RetentionPosterior {
                 r = Math.min(Math.max(r, 1e-12), 1 - 1e-12);
                 double a = r * kappa, b = (1 - r) * kappa;
                 long y = ys[i], m = n[c][k];
-                lp += Gamma.logGamma(y + a) + Gamma.logGamma(m - y + b) - Gamma.logGamma(a) - Gamma.logGamma(b)
-                        + Gamma.logGamma(kappa) - Gamma.logGamma(m + kappa);
+                lp += Gamma.logGamma(y + a) + Gamma.logGamma(m - y + b) - Gamma.logGamma(a) - Gamma.logGamma(b);
+                if (kappaTerms) {
+                    lp += Gamma.logGamma(kappa) - Gamma.logGamma(m + kappa);
+                }
             }
             return lp;
         }
@@ -192,9 +203,15 @@ public final class RetentionPosterior {
     }
 
     double allLikelihood(double[] x) {
+        return allLikelihood(x, false);
+    }
+
+    double allLikelihood(double[] x, boolean kappaTerms) {
         double lp = 0;
         for (int c = 0; c < cohorts; c++) {
-            lp += cohortLikelihood(x, c, x[level + c], x[slope + c]);
+            for (int k = 0; k < arms; k++) {
+                lp += cell(x, c, k, x[level + c], x[slope + c], kappaTerms);
+            }
         }
         return lp;
     }
@@ -225,7 +242,7 @@ public final class RetentionPosterior {
         if (!survival) {
             lp += normal(x[logKappa], LOG_KAPPA_MEAN, LOG_KAPPA_SD);
         }
-        return lp + allLikelihood(x);
+        return lp + allLikelihood(x, true);
     }
 
     /** Half-normal prior of a drift scale e^l plus the log-Jacobian l. */
@@ -304,7 +321,8 @@ public final class RetentionPosterior {
             shift(x, level, offLevel, levelMean(), levelSd());
             shift(x, slope, offSlope, slopeMean(), slopeSd());
             if (!survival) {
-                slice(x, logKappa, v -> normal(v, LOG_KAPPA_MEAN, LOG_KAPPA_SD) + withValue(x, logKappa, v, () -> allLikelihood(x)));
+                slice(x, logKappa, v -> normal(v, LOG_KAPPA_MEAN, LOG_KAPPA_SD)
+                        + withValue(x, logKappa, v, () -> allLikelihood(x, true)));
             }
             state.refresh();
         }
