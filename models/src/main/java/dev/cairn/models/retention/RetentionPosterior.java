@@ -8,7 +8,6 @@ import dev.cairn.samplers.Draws;
 import dev.cairn.samplers.Parameters;
 import dev.cairn.samplers.Progress;
 import dev.cairn.samplers.RunSettings;
-import dev.cairn.samplers.Slice;
 import dev.cairn.samplers.Step;
 import dev.cairn.samplers.Sweep;
 import dev.cairn.samplers.Target;

@@ -1,7 +1,6 @@
 package dev.cairn.models.segmented;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
-import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.cairn.diagnostics.Quantiles;
