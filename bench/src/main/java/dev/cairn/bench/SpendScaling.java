@@ -75,6 +75,12 @@ public final class SpendScaling {
                 bare, bareParquet);
         System.out.printf(Locale.ROOT, "fit on CSV:     %.2f s   ratio to bare query %.2f (target <= 1.3)%n", fitCsv, fitCsv / bare);
         System.out.printf(Locale.ROOT, "fit on Parquet: %.2f s   CSV / Parquet %.1f x (target >= 5)%n", fitParquet, fitCsv / fitParquet);
+        dev.cairn.models.spec.Spec csvS = dev.cairn.models.spec.SpecReader.read(csvSpec);
+        dev.cairn.models.spec.Spec parquetS = dev.cairn.models.spec.SpecReader.read(parquetSpec);
+        double readCsv = best(() -> dev.cairn.models.data.SpendDataReader.read(csvS.data(), dir, false));
+        double readParquet = best(() -> dev.cairn.models.data.SpendDataReader.read(parquetS.data(), dir, false));
+        System.out.printf(Locale.ROOT, "statistics (validation + sufficient statistics) alone: CSV %.2f s, Parquet %.3f s: %.1f x%n",
+                readCsv, readParquet, readCsv / readParquet);
         peakMemory(csvSpec, dir);
 
         SpendPriors priors = new SpendPriors(SpendPriors.DEFAULT_PAYER_RATE, null,
