@@ -29,16 +29,10 @@ final class ResultPrinter {
     static String pooled(PooledResult r) {
         String level = levelLabel(r.interval());
         StringBuilder sb = new StringBuilder();
-        if (r.title() != null) {
-            sb.append(r.title()).append('\n');
-        }
+        title(sb, r);
         sb.append(String.format(Locale.ROOT, "pooled-effects: %d estimates from %s; %s sampler, %d chains x %,d draws, seed %d%n",
                 r.effects().size(), r.data().source(), r.run().method(), r.run().chains(), r.run().draws(), r.run().seed()));
-        sb.append(r.converged() ? "Converged (R-hat and ESS checks passed).\n"
-                : "NOT CONVERGED - the numbers below are not to be trusted:\n");
-        if (!r.converged()) {
-            r.diagnostics().reasons().forEach(x -> sb.append("  - ").append(x).append('\n'));
-        }
+        verdict(sb, r);
         int width = Math.max(6, r.effects().keySet().stream().mapToInt(String::length).max().orElse(6));
         String row = "%-" + width + "s  %22s  %-30s  %8s%n";
         sb.append('\n').append(String.format(Locale.ROOT, row, "effect", "as given (+- se)", "pooled: median [lo, hi]", "P(> 0)"));
@@ -53,29 +47,18 @@ final class ResultPrinter {
         sb.append(String.format(Locale.ROOT, "a new effect:            %s  -> informed prior: normal(mean %s, sd %s)%n",
                 interval(r.predictive(), 3), Numbers.sig(r.predictive().mean(), 3), Numbers.sig(r.predictive().sd(), 3)));
         sb.append("(").append(level).append(" credible intervals: median [lo, hi])\n");
-        if (!r.warnings().isEmpty()) {
-            sb.append("\nWarnings:\n");
-            r.warnings().forEach(w -> sb.append("  ! ").append(w).append('\n'));
-        }
-        sb.append('\n');
-        r.cautions().forEach(c -> sb.append("Note: ").append(c).append('\n'));
+        warningsAndCautions(sb, r);
         return sb.toString();
     }
 
     static String retention(dev.cairn.models.result.RetentionResult r) {
         StringBuilder sb = new StringBuilder();
-        if (r.title() != null) {
-            sb.append(r.title()).append('\n');
-        }
+        title(sb, r);
         long cohorts = r.cohorts().stream().map(c -> c.get("cohort")).distinct().count();
         sb.append(String.format(Locale.ROOT, "retention (%s): %d cohorts, %d arms from %s; %s sampler, %d chains x %,d draws, seed %d%n",
                 r.curve(), cohorts, r.arms().size(), r.data().source(), r.run().method(), r.run().chains(), r.run().draws(),
                 r.run().seed()));
-        sb.append(r.converged() ? "Converged (R-hat and ESS checks passed).\n"
-                : "NOT CONVERGED - the numbers below are not to be trusted:\n");
-        if (!r.converged()) {
-            r.diagnostics().reasons().stream().limit(12).forEach(x -> sb.append("  - ").append(x).append('\n'));
-        }
+        verdict(sb, r);
         sb.append('\n').append(String.format(Locale.ROOT, "%-12s %10s", "arm", "installs"));
         for (int d : r.days()) {
             sb.append(String.format(Locale.ROOT, "  %-24s", "D" + d));
@@ -112,7 +95,6 @@ final class ResultPrinter {
         }
         sb.append(String.format(Locale.ROOT, "Drift per cohort: level %s, slope %s (random-walk sd)%n",
                 interval(r.drift().get("level"), 2), interval(r.drift().get("slope"), 2)));
-        int shown = 0;
         sb.append("\nD" + r.days().get(Math.min(1, r.days().size() - 1)) + " by cohort (control; p = projected):\n");
         String key = "d" + r.days().get(Math.min(1, r.days().size() - 1));
         for (Map<String, Object> c : r.cohorts()) {
@@ -124,15 +106,36 @@ final class ResultPrinter {
             List<String> projected = (List<String>) c.get("projected");
             sb.append(String.format(Locale.ROOT, "  %-12s %5.1f%% [%.1f, %.1f]%s%n", c.get("cohort"), 100 * i.median(),
                     100 * i.lo(), 100 * i.hi(), projected.contains(key) ? " p" : ""));
-            shown++;
         }
-        if (!r.warnings().isEmpty()) {
+        warningsAndCautions(sb, r);
+        return sb.toString();
+    }
+
+    private static void title(StringBuilder sb, FitResult r) {
+        if (r.title() != null) {
+            sb.append(r.title()).append('\n');
+        }
+    }
+
+    /** The verdict line and, when not converged, the first reasons. */
+    private static void verdict(StringBuilder sb, FitResult r) {
+        sb.append(r.converged() ? "Converged (R-hat and ESS checks passed).\n"
+                : "NOT CONVERGED - the numbers below are not to be trusted:\n");
+        if (!r.converged()) {
+            r.diagnostics().reasons().stream().limit(12).forEach(x -> sb.append("  - ").append(x).append('\n'));
+            if (r.diagnostics().reasons().size() > 12) {
+                sb.append("  - and ").append(r.diagnostics().reasons().size() - 12).append(" more (see result.json)\n");
+            }
+        }
+    }
+
+    private static void warningsAndCautions(StringBuilder sb, FitResult r) {
+        if (r.warnings() != null && !r.warnings().isEmpty()) {
             sb.append("\nWarnings:\n");
             r.warnings().forEach(w -> sb.append("  ! ").append(w).append('\n'));
         }
         sb.append('\n');
         r.cautions().forEach(c -> sb.append("Note: ").append(c).append('\n'));
-        return sb.toString();
     }
 
     static String levelLabel(double interval) {
@@ -142,9 +145,7 @@ final class ResultPrinter {
     static String spend(Result r) {
         String level = levelLabel(r.interval());
         StringBuilder sb = new StringBuilder();
-        if (r.title() != null) {
-            sb.append(r.title()).append('\n');
-        }
+        title(sb, r);
         sb.append(String.format(Locale.ROOT, "%s: %,d users in %d arms%s from %s; %s sampler, %d chains x %,d draws, seed %d%n",
                 r.model(), r.data().users(), r.arms().size(),
                 r.segments() == null ? "" : String.format(Locale.ROOT, " and %d segments", r.segments().size()),
@@ -152,11 +153,7 @@ final class ResultPrinter {
         if (r.run().parameterisation() != null) {
             sb.append("Parameterisation: ").append(r.run().parameterisation()).append('\n');
         }
-        sb.append(r.converged() ? "Converged (R-hat and ESS checks passed).\n"
-                : "NOT CONVERGED - the numbers below are not to be trusted:\n");
-        if (!r.converged()) {
-            r.diagnostics().reasons().forEach(x -> sb.append("  - ").append(x).append('\n'));
-        }
+        verdict(sb, r);
         sb.append('\n');
         boolean spend = r.arms().values().iterator().next().arpu() != null;
         int width = Math.max(3, r.arms().keySet().stream().mapToInt(String::length).max().orElse(3));
@@ -210,12 +207,7 @@ final class ResultPrinter {
             sb.append(String.format(Locale.ROOT, "%nPredictive checks: %d of %d statistics reproduced%s%n",
                     r.checks().size() - misfits, r.checks().size(), misfits == 0 ? "." : "; see warnings."));
         }
-        if (r.warnings() != null && !r.warnings().isEmpty()) {
-            sb.append("\nWarnings:\n");
-            r.warnings().forEach(w -> sb.append("  ! ").append(w).append('\n'));
-        }
-        sb.append('\n');
-        r.cautions().forEach(c -> sb.append("Note: ").append(c).append('\n'));
+        warningsAndCautions(sb, r);
         return sb.toString();
     }
 

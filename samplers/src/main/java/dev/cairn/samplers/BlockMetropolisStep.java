@@ -1,7 +1,6 @@
 package dev.cairn.samplers;
 
 import org.apache.commons.rng.UniformRandomProvider;
-import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
 import org.ejml.interfaces.decomposition.CholeskyDecomposition_F64;
@@ -63,8 +62,8 @@ public final class BlockMetropolisStep implements Step {
         private final int warmupBeforeCovariance;
         private long proposals;
         private long accepted;
-        private UniformRandomProvider boundTo;
-        private ZigguratSampler.NormalizedGaussian gaussian;
+        private final ChainGaussian normal = new ChainGaussian();
+        private UniformRandomProvider stream;
 
         BlockUpdater(int[] coordinates, double initialScale) {
             this.coordinates = coordinates;
@@ -105,14 +104,11 @@ public final class BlockMetropolisStep implements Step {
 
         @Override
         public void update(ChainState state, UniformRandomProvider rng, boolean adapt) {
-            if (rng != boundTo) {
-                gaussian = ZigguratSampler.NormalizedGaussian.of(rng);
-                boundTo = rng;
-            }
+            stream = rng;
             double[] x = state.point();
             double sd = Math.exp(logLambda / 2);
             for (int i = 0; i < d; i++) {
-                z[i] = gaussian.sample();
+                z[i] = normal.sample(stream);
                 saved[i] = x[coordinates[i]];
             }
             for (int i = 0; i < d; i++) {

@@ -1,7 +1,6 @@
 package dev.cairn.samplers;
 
 import org.apache.commons.rng.UniformRandomProvider;
-import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 
 /**
  * Random-walk Metropolis on one coordinate at a time (Metropolis-within-Gibbs), each coordinate with its
@@ -51,8 +50,8 @@ public final class MetropolisStep implements Step {
         private int batches;
         private long proposals;
         private long accepted;
-        private UniformRandomProvider boundTo;
-        private ZigguratSampler.NormalizedGaussian gaussian;
+        private final ChainGaussian normal = new ChainGaussian();
+        private UniformRandomProvider stream;
 
         MetropolisUpdater(int[] coordinates, double scale) {
             this.coordinates = coordinates;
@@ -72,15 +71,12 @@ public final class MetropolisStep implements Step {
 
         @Override
         public void update(ChainState state, UniformRandomProvider rng, boolean adapt) {
-            if (rng != boundTo) {
-                gaussian = ZigguratSampler.NormalizedGaussian.of(rng);
-                boundTo = rng;
-            }
+            stream = rng;
             double[] x = state.point();
             for (int k = 0; k < coordinates.length; k++) {
                 int i = coordinates[k];
                 double x0 = x[i];
-                x[i] = x0 + Math.exp(logScale[k]) * gaussian.sample();
+                x[i] = x0 + Math.exp(logScale[k]) * normal.sample(stream);
                 double lp = ChainState.evaluate(state.target(), x);
                 proposals++;
                 if (Math.log(rng.nextDouble()) < lp - state.logDensity()) {

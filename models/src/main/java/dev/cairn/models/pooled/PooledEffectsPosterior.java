@@ -15,7 +15,6 @@ import dev.cairn.samplers.Sweep;
 import dev.cairn.samplers.Target;
 import dev.cairn.samplers.Transform;
 import org.apache.commons.rng.UniformRandomProvider;
-import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 
 /**
  * Pooled effects with known standard errors (Gelman et al., Bayesian Data Analysis 3rd ed., sections
@@ -178,15 +177,12 @@ public final class PooledEffectsPosterior {
             Updater slice = SliceStep.of(1.0).start(marginal);
             return new Updater() {
                 private ChainState tauState;
-                private UniformRandomProvider boundTo;
-                private ZigguratSampler.NormalizedGaussian gaussian;
+                private final dev.cairn.samplers.ChainGaussian normal = new dev.cairn.samplers.ChainGaussian();
+                private UniformRandomProvider stream;
 
                 @Override
                 public void update(ChainState state, UniformRandomProvider rng, boolean adapt) {
-                    if (rng != boundTo) {
-                        gaussian = ZigguratSampler.NormalizedGaussian.of(rng);
-                        boundTo = rng;
-                    }
+                    stream = rng;
                     double[] x = state.point();
                     if (tauState == null) {
                         tauState = ChainState.of(marginal, new double[] {x[I_TAU]});
@@ -198,15 +194,15 @@ public final class PooledEffectsPosterior {
                     x[I_TAU] = tauState.point()[0];
                     double tau = Math.exp(x[I_TAU]);
                     double[] m = muGivenTau(tau);
-                    double mu = m[0] + Math.sqrt(m[1]) * gaussian.sample();
+                    double mu = m[0] + Math.sqrt(m[1]) * normal.sample(stream);
                     x[I_MU] = mu;
                     double t2 = tau * tau;
                     for (int j = 0; j < y.length; j++) {
                         double precision = 1 / s2[j] + 1 / t2;
                         double mean = (y[j] / s2[j] + mu / t2) / precision;
-                        x[FIRST_EFFECT + j] = mean + gaussian.sample() / Math.sqrt(precision);
+                        x[FIRST_EFFECT + j] = mean + normal.sample(stream) / Math.sqrt(precision);
                     }
-                    x[I_PREDICTIVE] = mu + tau * gaussian.sample();
+                    x[I_PREDICTIVE] = mu + tau * normal.sample(stream);
                     state.refresh();
                 }
             };

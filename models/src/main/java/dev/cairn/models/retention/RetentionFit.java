@@ -73,21 +73,13 @@ public final class RetentionFit {
             a.put("retention", retention);
             armOut.put(arms.get(k), a);
         }
-        List<Comparison> comparisons = new ArrayList<>();
-        for (String a : arms) {
-            if (a.equals(control)) {
-                continue;
-            }
-            for (int d : days) {
-                String metric = RetentionOutputs.day(d);
-                comparisons.add(SpendAnalysis.compare(a, control, metric, draws.pooled(metric + "[" + a + "]"),
-                        draws.pooled(metric + "[" + control + "]"), level));
-            }
-            if (revenue != null) {
-                comparisons.add(SpendAnalysis.compare(a, control, "ltv", draws.pooled("ltv[" + a + "]"),
-                        draws.pooled("ltv[" + control + "]"), level));
-            }
+        List<String> metrics = new ArrayList<>();
+        days.forEach(d -> metrics.add(RetentionOutputs.day(d)));
+        if (revenue != null) {
+            metrics.add("ltv");
         }
+        List<Comparison> comparisons = SpendAnalysis.compareAll(arms, control, metrics,
+                (metric, arm) -> draws.pooled(metric + "[" + arm + "]"), level);
         List<Map<String, Object>> cohorts = new ArrayList<>();
         for (int c = 0; c < data.cohorts().size(); c++) {
             for (int k = 0; k < arms.size(); k++) {

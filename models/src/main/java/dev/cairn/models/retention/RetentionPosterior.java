@@ -2,15 +2,11 @@ package dev.cairn.models.retention;
 
 import dev.cairn.models.data.CohortDays;
 import dev.cairn.samplers.Cancellation;
-import dev.cairn.samplers.ChainRunner;
 import dev.cairn.samplers.ChainState;
 import dev.cairn.samplers.Draws;
-import dev.cairn.samplers.Parameters;
 import dev.cairn.samplers.Progress;
 import dev.cairn.samplers.RunSettings;
 import dev.cairn.samplers.Step;
-import dev.cairn.samplers.Sweep;
-import dev.cairn.samplers.Target;
 import java.util.Map;
 import java.util.function.DoubleUnaryOperator;
 import org.apache.commons.math3.special.Gamma;
@@ -251,13 +247,8 @@ public final class RetentionPosterior {
     }
 
     Draws sample(RunSettings settings, Progress progress, Cancellation cancellation) {
-        String[] names = new String[size];
-        for (int i = 0; i < size; i++) {
-            names[i] = "x" + i;
-        }
-        Target target = Target.of(Parameters.real(names), this::logJoint);
-        return ChainRunner.of(settings).withProgress(progress).withCancellation(cancellation)
-                .run(target, Sweep.of(new SweepStep()), (chain, p, rng) -> start(rng));
+        return dev.cairn.models.FitSupport.runInternal(size, this::logJoint, SweepUpdater::new, this::start, settings,
+                progress, cancellation);
     }
 
     double[] start(UniformRandomProvider rng) {
@@ -278,13 +269,6 @@ public final class RetentionPosterior {
             x[logKappa] = LOG_KAPPA_MEAN + (2 * rng.nextDouble() - 1);
         }
         return x;
-    }
-
-    final class SweepStep implements Step {
-        @Override
-        public Updater start(Target target) {
-            return new SweepUpdater();
-        }
     }
 
     final class SweepUpdater implements Step.Updater {

@@ -76,17 +76,10 @@ public final class SegmentedFit {
         }
         List<Comparison> comparisons = new ArrayList<>();
         for (String scope : new String[] {SegmentedOutputs.POPULATION, SegmentedOutputs.TYPICAL}) {
-            for (String a : arms) {
-                if (a.equals(control)) {
-                    continue;
-                }
-                for (String metric : metrics) {
-                    comparisons.add(SpendAnalysis.compare(a, control, metric,
-                            draws.pooled(SegmentedOutputs.cell(metric, scope, a)),
-                            draws.pooled(SegmentedOutputs.cell(metric, scope, control)), level)
-                            .withScope(scope.equals(SegmentedOutputs.TYPICAL) ? "typical-segment" : "population", null));
-                }
-            }
+            String label = scope.equals(SegmentedOutputs.TYPICAL) ? "typical-segment" : "population";
+            SpendAnalysis.compareAll(arms, control, metrics,
+                            (metric, arm) -> draws.pooled(SegmentedOutputs.cell(metric, scope, arm)), level)
+                    .forEach(c -> comparisons.add(c.withScope(label, null)));
         }
         Map<String, SegmentSummary> perSegment = new LinkedHashMap<>();
         List<String> warnings = new ArrayList<>(data.warnings());
@@ -106,18 +99,10 @@ public final class SegmentedFit {
                 }
                 cells.put(a, summary(draws, seg, a, c == null ? 0 : c.users(), c == null ? 0 : c.payers(), data, level));
             }
-            List<Comparison> segComparisons = new ArrayList<>();
-            for (String a : arms) {
-                if (a.equals(control)) {
-                    continue;
-                }
-                for (String metric : metrics) {
-                    segComparisons.add(SpendAnalysis.compare(a, control, metric,
-                            draws.pooled(SegmentedOutputs.cell(metric, seg, a)),
-                            draws.pooled(SegmentedOutputs.cell(metric, seg, control)), level)
-                            .withScope(null, rawLift(metric, data.cell(seg, a), data.cell(seg, control))));
-                }
-            }
+            List<Comparison> segComparisons = SpendAnalysis.compareAll(arms, control, metrics,
+                            (metric, arm) -> draws.pooled(SegmentedOutputs.cell(metric, seg, arm)), level).stream()
+                    .map(c -> c.withScope(null, rawLift(c.metric(), data.cell(seg, c.arm()), data.cell(seg, control))))
+                    .toList();
             perSegment.put(seg, new SegmentSummary(users, cells, segComparisons, notes.isEmpty() ? null : notes));
         }
         if (!report.converged()) {
@@ -126,7 +111,8 @@ public final class SegmentedFit {
         }
         Map<String, Map<String, Double>> probBest = new LinkedHashMap<>();
         for (String metric : metrics) {
-            probBest.put(metric, probBest(draws, metric, arms));
+            probBest.put(metric, SpendAnalysis.probBest(arms,
+                    arm -> draws.pooled(SegmentedOutputs.cell(metric, SegmentedOutputs.POPULATION, arm))));
         }
         double seconds = Math.round((System.nanoTime() - start) / 1e6) / 1e3;
         Result result = new Result("segmented-spend", spec.title(), report.converged(), control, level,
@@ -202,27 +188,5 @@ public final class SegmentedFit {
             arppu = Double.NaN;
         }
         return metric.equals("arppu") ? arppu : rate * arppu;
-    }
-
-    private static Map<String, Double> probBest(Draws draws, String metric, List<String> arms) {
-        double[][] values = new double[arms.size()][];
-        for (int k = 0; k < arms.size(); k++) {
-            values[k] = draws.pooled(SegmentedOutputs.cell(metric, SegmentedOutputs.POPULATION, arms.get(k)));
-        }
-        long[] best = new long[arms.size()];
-        for (int i = 0; i < values[0].length; i++) {
-            int argmax = 0;
-            for (int k = 1; k < arms.size(); k++) {
-                if (values[k][i] > values[argmax][i]) {
-                    argmax = k;
-                }
-            }
-            best[argmax]++;
-        }
-        Map<String, Double> out = new LinkedHashMap<>();
-        for (int k = 0; k < arms.size(); k++) {
-            out.put(arms.get(k), (double) best[k] / values[0].length);
-        }
-        return out;
     }
 }

@@ -3,19 +3,14 @@ package dev.cairn.models.segmented;
 import dev.cairn.models.data.ArmStats;
 import dev.cairn.models.data.SegmentedSpendData;
 import dev.cairn.samplers.Cancellation;
-import dev.cairn.samplers.ChainRunner;
 import dev.cairn.samplers.ChainState;
 import dev.cairn.samplers.Draws;
-import dev.cairn.samplers.Parameters;
 import dev.cairn.samplers.Progress;
 import dev.cairn.samplers.RunSettings;
 import dev.cairn.samplers.Step;
-import dev.cairn.samplers.Sweep;
-import dev.cairn.samplers.Target;
 import java.util.List;
 import java.util.function.DoubleUnaryOperator;
 import org.apache.commons.rng.UniformRandomProvider;
-import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 
 /**
  * Spend per (segment j, arm k) cell, pooled across segments:
@@ -258,19 +253,10 @@ public final class SegmentedPosterior {
         return lp;
     }
 
-    Parameters internalParameters() {
-        String[] names = new String[at.size];
-        for (int i = 0; i < at.size; i++) {
-            names[i] = "x" + i;
-        }
-        return Parameters.real(names);
-    }
-
     /** Runs the chains and returns the internal draws (see {@link SegmentedOutputs} for named quantities). */
     Draws sample(RunSettings settings, Progress progress, Cancellation cancellation) {
-        Target target = Target.of(internalParameters(), this::logJoint);
-        return ChainRunner.of(settings).withProgress(progress).withCancellation(cancellation)
-                .run(target, Sweep.of(new SweepStep()), (chain, p, rng) -> start(rng));
+        return dev.cairn.models.FitSupport.runInternal(at.size, this::logJoint, SweepUpdater::new, this::start, settings,
+                progress, cancellation);
     }
 
     /** Dispersed starts: level parameters near their prior centres, effects near zero, scales around 0.3. */
@@ -292,13 +278,6 @@ public final class SegmentedPosterior {
     }
 
     /** One Metropolis-within-Gibbs sweep over every internal coordinate, using local conditionals. */
-    final class SweepStep implements Step {
-        @Override
-        public Updater start(Target target) {
-            return new SweepUpdater();
-        }
-    }
-
     final class SweepUpdater implements Step.Updater {
         private final dev.cairn.models.LocalSlice local = new dev.cairn.models.LocalSlice(at.size, 1.0);
         private final org.ejml.data.DMatrixRMaj blockQ = new org.ejml.data.DMatrixRMaj(arms, arms);
@@ -306,15 +285,12 @@ public final class SegmentedPosterior {
         private final double[] blockH = new double[arms];
         private final org.ejml.interfaces.decomposition.CholeskyDecomposition_F64<org.ejml.data.DMatrixRMaj> cholesky =
                 org.ejml.dense.row.factory.DecompositionFactory_DDRM.chol(arms, true);
-        private UniformRandomProvider boundTo;
-        private ZigguratSampler.NormalizedGaussian gaussian;
+        private final dev.cairn.samplers.ChainGaussian normal = new dev.cairn.samplers.ChainGaussian();
+        private UniformRandomProvider stream;
 
         @Override
         public void update(ChainState state, UniformRandomProvider r, boolean adaptNow) {
-            if (r != boundTo) {
-                gaussian = ZigguratSampler.NormalizedGaussian.of(r);
-                boundTo = r;
-            }
+            stream = r;
             local.begin(r, adaptNow);
             double[] x = state.point();
             sweep(x);
@@ -326,7 +302,7 @@ public final class SegmentedPosterior {
         }
 
         private double normalDraw(double mean, double precision) {
-            return mean + gaussian.sample() / Math.sqrt(precision);
+            return mean + normal.sample(stream) / Math.sqrt(precision);
         }
 
         private void sweep(double[] x) {
@@ -348,7 +324,7 @@ public final class SegmentedPosterior {
                     }
                     int kk = k;
                     if (!present[j][k]) {
-                        x[at.d(j, k)] = effectsNc ? gaussian.sample() : x[at.bigD + k] + tD * gaussian.sample();
+                        x[at.d(j, k)] = effectsNc ? normal.sample(stream) : x[at.bigD + k] + tD * normal.sample(stream);
                     } else {
                         slice(x, at.d(j, k), v -> effectsNc
                                 ? -0.5 * v * v + binomial(jj, kk, alpha(x, jj) + x[at.bigD + kk] + tD * v)
@@ -677,7 +653,7 @@ public final class SegmentedPosterior {
                 y[r] = sum / lower.get(r, r);
             }
             for (int r = 0; r < dim; r++) {
-                y[r] += gaussian.sample();
+                y[r] += normal.sample(stream);
             }
             double[] theta = new double[dim];
             for (int r = dim - 1; r >= 0; r--) {

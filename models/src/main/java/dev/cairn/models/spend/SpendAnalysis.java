@@ -69,18 +69,8 @@ public final class SpendAnalysis {
 
     /** Every non-control arm against the control on every metric, draw by draw. */
     public static List<Comparison> comparisons(Draws draws, SpendData data, String control, double level) {
-        List<Comparison> out = new ArrayList<>();
-        for (ArmStats a : data.arms()) {
-            if (a.arm().equals(control)) {
-                continue;
-            }
-            for (String metric : metrics(data)) {
-                double[] arm = draws.pooled(SpendPosterior.name(metric, a.arm()));
-                double[] base = draws.pooled(SpendPosterior.name(metric, control));
-                out.add(compare(a.arm(), control, metric, arm, base, level));
-            }
-        }
-        return out;
+        return compareAll(data.armNames(), control, metrics(data),
+                (metric, arm) -> draws.pooled(SpendPosterior.name(metric, arm)), level);
     }
 
     public static Comparison compare(String arm, String control, String metric, double[] x, double[] c, double level) {
@@ -98,31 +88,51 @@ public final class SpendAnalysis {
                 above / x.length, loss / x.length);
     }
 
-    /** P(best): the share of draws in which each arm has the highest value of the metric. */
+    /** P(best) per metric: the share of draws in which each arm has the highest value of the metric. */
     public static Map<String, Map<String, Double>> probBest(Draws draws, SpendData data) {
         Map<String, Map<String, Double>> out = new LinkedHashMap<>();
-        List<String> arms = data.armNames();
         for (String metric : metrics(data)) {
-            double[][] values = new double[arms.size()][];
-            for (int k = 0; k < arms.size(); k++) {
-                values[k] = draws.pooled(SpendPosterior.name(metric, arms.get(k)));
-            }
-            long[] best = new long[arms.size()];
-            int n = values[0].length;
-            for (int i = 0; i < n; i++) {
-                int argmax = 0;
-                for (int k = 1; k < arms.size(); k++) {
-                    if (values[k][i] > values[argmax][i]) {
-                        argmax = k;
-                    }
+            out.put(metric, probBest(data.armNames(), arm -> draws.pooled(SpendPosterior.name(metric, arm))));
+        }
+        return out;
+    }
+
+    /** P(best) over the arms, given each arm's draws of one metric (all of the same length). */
+    public static Map<String, Double> probBest(List<String> arms, java.util.function.Function<String, double[]> drawsOf) {
+        double[][] values = new double[arms.size()][];
+        for (int k = 0; k < arms.size(); k++) {
+            values[k] = drawsOf.apply(arms.get(k));
+        }
+        long[] best = new long[arms.size()];
+        int n = values[0].length;
+        for (int i = 0; i < n; i++) {
+            int argmax = 0;
+            for (int k = 1; k < arms.size(); k++) {
+                if (values[k][i] > values[argmax][i]) {
+                    argmax = k;
                 }
-                best[argmax]++;
             }
-            Map<String, Double> m = new LinkedHashMap<>();
-            for (int k = 0; k < arms.size(); k++) {
-                m.put(arms.get(k), (double) best[k] / n);
+            best[argmax]++;
+        }
+        Map<String, Double> m = new LinkedHashMap<>();
+        for (int k = 0; k < arms.size(); k++) {
+            m.put(arms.get(k), (double) best[k] / n);
+        }
+        return m;
+    }
+
+    /** Every non-control arm against the control on each metric, reading draws through {@code drawsOf(metric, arm)}. */
+    public static List<Comparison> compareAll(List<String> arms, String control, List<String> metrics,
+                                              java.util.function.BiFunction<String, String, double[]> drawsOf,
+                                              double level) {
+        List<Comparison> out = new ArrayList<>();
+        for (String a : arms) {
+            if (a.equals(control)) {
+                continue;
             }
-            out.put(metric, m);
+            for (String metric : metrics) {
+                out.add(compare(a, control, metric, drawsOf.apply(metric, a), drawsOf.apply(metric, control), level));
+            }
         }
         return out;
     }
