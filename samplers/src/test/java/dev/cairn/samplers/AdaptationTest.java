@@ -53,7 +53,7 @@ class AdaptationTest {
         }
         MetropolisStep.MetropolisUpdater m = (MetropolisStep.MetropolisUpdater) chain.updater(0);
         // For a Gaussian target with sd 5, acceptance 0.44 is reached near proposal sd 2.4 x 5 (Roberts &
-        // Rosenthal 2001, Statistical Science 16(4), for d = 1); any scale within a factor 3 is fine here.
+        // Rosenthal 2001, Statistical Science 16(4), for d = 1; value from memory); any scale within a factor 3 is fine.
         assertTrue(m.scale(0) > 4 && m.scale(0) < 36, "scale " + m.scale(0));
     }
 

@@ -89,7 +89,8 @@ class RetentionCalibrationTest {
     /**
      * Note on the survival simulation: each customer of an sBG cohort has a fixed churn probability
      * theta ~ Beta(alpha, beta); the hazard given survival to t - 1 is alpha / (alpha + beta + t - 1)
-     * (Fader & Hardie 2007, eq. 5), which applied to the survivors reproduces the cohort's survival curve.
+     * (Fader & Hardie 2007; equation number not checked, the formula is from memory and is the standard sBG
+     * recursion also used by RetentionPosterior), which applied to the survivors reproduces the survival curve.
      */
     @Test
     void youngCohortProjectionsCoverTheTruthAndDriftAndArmsAreRecovered() {
