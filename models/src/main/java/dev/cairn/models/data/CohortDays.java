@@ -4,7 +4,6 @@ import dev.cairn.models.InputException;
 import dev.cairn.models.spec.DataSpec;
 import java.nio.file.Path;
 import java.sql.Connection;
-import java.sql.DriverManager;
 import java.sql.ResultSet;
 import java.sql.SQLException;
 import java.sql.Statement;
@@ -43,7 +42,7 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
     }
 
     public static CohortDays read(DataSpec data, Path baseDir, boolean survival) {
-        try (Connection db = DriverManager.getConnection("jdbc:duckdb:")) {
+        try (Connection db = Engine.ordered()) { // one thread: rows numbered in file order; retention tables are small
             String cohortCol = data.column("cohort", "cohort");
             String dayCol = data.column("day", "day");
             String installsCol = data.column("installs", "installs");
@@ -62,12 +61,9 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
                     + Sql.identifier(day) + " AS DOUBLE), CAST(" + Sql.identifier(inst) + " AS DOUBLE), CAST("
                     + Sql.identifier(act) + " AS DOUBLE) FROM " + source.relation + " ORDER BY 1";
             List<Object[]> rows = new ArrayList<>();
-            try (Statement s = db.createStatement()) {
-                s.execute("SET threads = 1"); // file order for row numbers; retention tables are small
-                try (ResultSet r = s.executeQuery(sql)) {
-                    while (r.next()) {
-                        rows.add(new Object[] {r.getLong(1), r.getString(2), r.getString(3), num(r, 4), num(r, 5), num(r, 6)});
-                    }
+            try (Statement s = db.createStatement(); ResultSet r = s.executeQuery(sql)) {
+                while (r.next()) {
+                    rows.add(new Object[] {r.getLong(1), r.getString(2), r.getString(3), num(r, 4), num(r, 5), num(r, 6)});
                 }
             } catch (SQLException e) {
                 throw Sql.readError(source.name, e);

@@ -4,7 +4,6 @@ import dev.cairn.models.InputException;
 import dev.cairn.models.spec.DataSpec;
 import java.nio.file.Path;
 import java.sql.Connection;
-import java.sql.DriverManager;
 import java.sql.ResultSet;
 import java.sql.SQLException;
 import java.sql.Statement;
@@ -19,7 +18,7 @@ final class EstimatesReader {
     }
 
     static Estimates read(DataSpec data, Path baseDir) {
-        try (Connection db = DriverManager.getConnection("jdbc:duckdb:")) {
+        try (Connection db = Engine.connect()) {
             String nameCol = data.column("name", "name");
             String estimateCol = data.column("estimate", "estimate");
             String seCol = data.column("se", "se");

@@ -238,13 +238,13 @@ final class Source {
         String position = rowsPointer != null ? "row_index" : "row_number() OVER ()";
         String sql = "SELECT position FROM (SELECT " + position + " AS position, * FROM " + relation
                 + ") WHERE " + condition + " ORDER BY position LIMIT " + SHOW_ROWS;
-        try (Statement s = db.createStatement()) {
-            s.execute("SET threads = 1"); // file order for row_number(); this path only runs on bad data
-            try (ResultSet r = s.executeQuery(sql)) {
-                while (r.next()) {
-                    long p = r.getLong(1);
-                    where.add(rowsPointer != null ? rowsPointer + "/" + p : String.valueOf(csv ? p + 1 : p));
-                }
+        // Inline rows carry their index; a file's rows are numbered by a one-thread engine so that
+        // row_number() follows the file (this path only runs on bad data).
+        try (Connection own = rowsPointer != null ? null : Engine.ordered();
+             Statement s = (own != null ? own : db).createStatement(); ResultSet r = s.executeQuery(sql)) {
+            while (r.next()) {
+                long p = r.getLong(1);
+                where.add(rowsPointer != null ? rowsPointer + "/" + p : String.valueOf(csv ? p + 1 : p));
             }
         } catch (SQLException e) {
             // Fall back to the count alone.

@@ -4,7 +4,6 @@ import dev.cairn.models.InputException;
 import dev.cairn.models.spec.DataSpec;
 import java.nio.file.Path;
 import java.sql.Connection;
-import java.sql.DriverManager;
 import java.sql.ResultSet;
 import java.sql.SQLException;
 import java.sql.Statement;
@@ -108,7 +107,7 @@ final class HistoryPriors {
         String sql = "SELECT CAST(users AS DOUBLE), CAST(payers AS DOUBLE), CAST(log_spend_sum AS DOUBLE), "
                 + "CAST(log_spend_sq_sum AS DOUBLE) FROM " + relation;
         List<double[]> rows = new ArrayList<>();
-        try (Connection db = DriverManager.getConnection("jdbc:duckdb:");
+        try (Connection db = dev.cairn.models.data.Engine.connect();
              Statement s = db.createStatement(); ResultSet r = s.executeQuery(sql)) {
             int line = 1;
             while (r.next()) {
