@@ -4,7 +4,6 @@ import dev.cairn.models.InputException;
 import dev.cairn.models.spec.DataSpec;
 import java.nio.file.Path;
 import java.sql.Connection;
-import java.sql.DriverManager;
 import java.sql.ResultSet;
 import java.sql.SQLException;
 import java.sql.Statement;
@@ -61,10 +60,7 @@ public final class SpendDataReader {
     }
 
     private static Cells cells(DataSpec data, Path baseDir, boolean strict, boolean segmented) {
-        try (Connection db = DriverManager.getConnection("jdbc:duckdb:")) {
-            try (Statement s = db.createStatement()) {
-                s.execute("SET preserve_insertion_order = true");
-            }
+        try (Connection db = Engine.connect()) {
             Source source = data.rows() != null ? Source.inline(db, data, c -> typeOf(c, data))
                     : Source.file(db, data, baseDir, c -> typeOf(c, data));
             String segment = segmented ? source.require(data, SEGMENT, SEGMENT) : null;
@@ -135,9 +131,9 @@ public final class SpendDataReader {
                         notFinite |= r.getLong("present") > 0 && (!Double.isFinite(sum) || !Double.isFinite(max)
                                 || !Double.isFinite(min));
                         negative += min < 0 ? 1 : 0;
-                        double[] q = quantiles(r.getArray("payer_quantiles"));
                         arms.add(new ArmStats(name, users, r.getLong("payers"), r.getDouble("log_spend_sum"),
-                                r.getDouble("log_spend_sq_sum"), sum, q[0], q[1], q[2], max));
+                                r.getDouble("log_spend_sq_sum"), sum, orNaN(r, "payer_p50"), orNaN(r, "payer_p90"),
+                                orNaN(r, "payer_p99"), max));
                     } else {
                         arms.add(ArmStats.conversions(name, users, r.getLong("payers")));
                     }
@@ -197,43 +193,69 @@ public final class SpendDataReader {
     }
 
     /**
-     * The users-layout query: one scan, per arm. Validation rides along: count(spend) below count(*) means
-     * empty cells, a negative minimum means negative spend, a non-finite sum or extreme means NaN or infinity.
+     * The users-layout query: one scan, per arm (per segment and arm when a segment expression is given).
+     *
+     * <p>The scan only counts users per distinct (arm, spend) value: nearly all users of a game spend
+     * nothing, and payers' amounts repeat (prices), so ten million users make a few tens of thousands of
+     * such cells. Everything else is computed over the cells:
+     * <ul>
+     *   <li>users, users with a value (fewer means empty cells), payers (spend &gt; 0);</li>
+     *   <li>S1 = sum of log spend and S2 = sum of its square over payers, and the payers' total spend, each
+     *       summed in increasing order of spend: the cells are unique per arm, so the order, and with it the
+     *       last bit of each sum, is the same however many threads read the file;</li>
+     *   <li>the smallest and largest spend (a negative minimum means negative spend, a NaN or infinite
+     *       extreme means a value that is not a finite number);</li>
+     *   <li>payers' p50, p90 and p99: the k-th smallest payer spend, k = floor(q (m - 1)) + 1 of m payers,
+     *       the same order statistic the predictive checks replicate.</li>
+     * </ul>
      */
     static String usersQuery(String armExpr, String spendColumn, String relation, String segmentExpr) {
-        return segmented("""
-                SELECT arm,
-                       count(*) AS users,
-                       count(spend) AS present,
-                       count_if(spend > 0) AS payers,
-                       sum(CASE WHEN spend > 0 THEN ln(spend) ELSE 0 END) AS log_spend_sum,
-                       sum(CASE WHEN spend > 0 THEN ln(spend) ^ 2 ELSE 0 END) AS log_spend_sq_sum,
-                       sum(spend) AS spend_sum,
+        return """
+                SELECT %1$s,
+                       CAST(sum(n) AS BIGINT) AS users,
+                       CAST(coalesce(sum(n) FILTER (WHERE spend IS NOT NULL), 0) AS BIGINT) AS present,
+                       CAST(coalesce(sum(n) FILTER (WHERE spend > 0), 0) AS BIGINT) AS payers,
+                       coalesce(sum(n * ln(spend) ORDER BY spend) FILTER (WHERE spend > 0), 0) AS log_spend_sum,
+                       coalesce(sum(n * ln(spend) * ln(spend) ORDER BY spend) FILTER (WHERE spend > 0), 0)
+                           AS log_spend_sq_sum,
+                       coalesce(sum(n * spend ORDER BY spend) FILTER (WHERE spend > 0), 0) AS spend_sum,
                        min(spend) AS spend_min,
                        max(spend) AS spend_max,
-                       quantile_disc(CASE WHEN spend > 0 THEN spend END, [0.5, 0.9, 0.99]) AS payer_quantiles
-                FROM (SELECT %s AS arm, CAST(%s AS DOUBLE) AS spend FROM %s)
-                GROUP BY arm ORDER BY arm""".formatted(armExpr, spendColumn, relation), segmentExpr);
+                       min(spend) FILTER (WHERE spend > 0 AND payers_up_to >= floor(0.5 * (payers_all - 1)) + 1)
+                           AS payer_p50,
+                       min(spend) FILTER (WHERE spend > 0 AND payers_up_to >= floor(0.9 * (payers_all - 1)) + 1)
+                           AS payer_p90,
+                       min(spend) FILTER (WHERE spend > 0 AND payers_up_to >= floor(0.99 * (payers_all - 1)) + 1)
+                           AS payer_p99
+                FROM (SELECT *,
+                             sum(n) FILTER (WHERE spend > 0) OVER (PARTITION BY %1$s ORDER BY spend) AS payers_up_to,
+                             sum(n) FILTER (WHERE spend > 0) OVER (PARTITION BY %1$s) AS payers_all
+                      FROM (SELECT %1$s, spend, count(*) AS n
+                            FROM (SELECT %2$s, CAST(%3$s AS DOUBLE) AS spend FROM %4$s)
+                            GROUP BY %1$s, spend))
+                GROUP BY %1$s ORDER BY %1$s""".formatted(keys(segmentExpr), selected(armExpr, segmentExpr),
+                spendColumn, relation);
     }
 
-    /** The same query grouped by segment too (segment first), when a segment expression is given. */
-    static String segmented(String query, String segmentExpr) {
-        if (segmentExpr == null) {
-            return query;
-        }
-        return query.replaceFirst("SELECT arm,", "SELECT segment, arm,")
-                .replaceFirst("\\(SELECT ", "(SELECT " + java.util.regex.Matcher.quoteReplacement(segmentExpr) + " AS segment, ")
-                .replace("GROUP BY arm ORDER BY arm", "GROUP BY segment, arm ORDER BY segment, arm");
+    /** The grouping keys: the arm, or the segment and the arm. */
+    private static String keys(String segmentExpr) {
+        return segmentExpr == null ? "arm" : "segment, arm";
+    }
+
+    /** The key columns as read from the relation. */
+    private static String selected(String armExpr, String segmentExpr) {
+        return (segmentExpr == null ? "" : segmentExpr + " AS segment, ") + armExpr + " AS arm";
     }
 
     static String conversionQuery(String armExpr, String convertedColumn, String relation, String segmentExpr) {
-        return segmented("""
-                SELECT arm,
+        return """
+                SELECT %1$s,
                        count(*) AS users,
                        count(converted) AS present,
                        count_if(converted) AS payers
-                FROM (SELECT %s AS arm, CAST(%s AS BOOLEAN) AS converted FROM %s)
-                GROUP BY arm ORDER BY arm""".formatted(armExpr, convertedColumn, relation), segmentExpr);
+                FROM (SELECT %2$s, CAST(%3$s AS BOOLEAN) AS converted FROM %4$s)
+                GROUP BY %1$s ORDER BY %1$s""".formatted(keys(segmentExpr), selected(armExpr, segmentExpr),
+                convertedColumn, relation);
     }
 
     private static long count(Connection db, Source source, String condition) {
@@ -246,16 +268,10 @@ public final class SpendDataReader {
         }
     }
 
-    private static double[] quantiles(java.sql.Array array) throws SQLException {
-        double[] out = {Double.NaN, Double.NaN, Double.NaN};
-        if (array == null) {
-            return out;
-        }
-        Object[] values = (Object[]) array.getArray();
-        for (int i = 0; i < Math.min(3, values.length); i++) {
-            out[i] = values[i] == null ? Double.NaN : ((Number) values[i]).doubleValue();
-        }
-        return out;
+    /** A column's value, NaN when it is NULL (a quantile of an arm without payers). */
+    private static double orNaN(ResultSet r, String column) throws SQLException {
+        double v = r.getDouble(column);
+        return r.wasNull() ? Double.NaN : v;
     }
 
     // ----------------------------------------------------------------------------------------------------
@@ -302,17 +318,18 @@ public final class SpendDataReader {
                 data.column("logSpendSum", LOG_SUM), "log-spend sums must be 0 where payers = 0"},
         };
         source.check(db, rules);
+        // Several rows of one arm are added in increasing order of value, so sums do not depend on threads.
         String query = """
-                SELECT arm,
-                       sum(users) AS users,
-                       sum(payers) AS payers,
-                       sum(log_spend_sum) AS log_spend_sum,
-                       sum(log_spend_sq_sum) AS log_spend_sq_sum
-                FROM (SELECT %s AS arm, CAST(%s AS BIGINT) AS users, CAST(%s AS BIGINT) AS payers,
-                             coalesce(%s, 0.0) AS log_spend_sum,
-                             coalesce(%s, 0.0) AS log_spend_sq_sum FROM %s)
-                GROUP BY arm ORDER BY arm""".formatted(armExpr, n, m, a, b, source.relation);
-        query = segmented(query, segmentExpr);
+                SELECT %1$s,
+                       CAST(sum(users) AS BIGINT) AS users,
+                       CAST(sum(payers) AS BIGINT) AS payers,
+                       sum(log_spend_sum ORDER BY log_spend_sum) AS log_spend_sum,
+                       sum(log_spend_sq_sum ORDER BY log_spend_sq_sum) AS log_spend_sq_sum
+                FROM (SELECT %2$s, CAST(%3$s AS BIGINT) AS users, CAST(%4$s AS BIGINT) AS payers,
+                             coalesce(%5$s, 0.0) AS log_spend_sum,
+                             coalesce(%6$s, 0.0) AS log_spend_sq_sum FROM %7$s)
+                GROUP BY %1$s ORDER BY %1$s""".formatted(keys(segmentExpr), selected(armExpr, segmentExpr), n, m,
+                a, b, source.relation);
         List<ArmStats> arms = new ArrayList<>();
         long rows = 0;
         try (Statement s = db.createStatement(); ResultSet r = s.executeQuery(query)) {

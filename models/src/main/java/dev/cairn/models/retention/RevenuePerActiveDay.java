@@ -4,7 +4,6 @@ import dev.cairn.models.InputException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.sql.Connection;
-import java.sql.DriverManager;
 import java.sql.ResultSet;
 import java.sql.SQLException;
 import java.sql.Statement;
@@ -30,13 +29,18 @@ final class RevenuePerActiveDay {
         String quoted = "'" + file.toString().replace("'", "''") + "'";
         String relation = file.toString().toLowerCase(java.util.Locale.ROOT).endsWith(".parquet")
                 ? "read_parquet(" + quoted + ")" : "read_csv(" + quoted + ", header = true, delim = ',')";
-        String sql = "SELECT trim(CAST(arm AS VARCHAR)), count(*), sum(CAST(revenue AS DOUBLE)), sum(CAST(active_days AS DOUBLE)), "
-                + "sum(CAST(revenue AS DOUBLE) ^ 2), sum(CAST(active_days AS DOUBLE) ^ 2), "
-                + "sum(CAST(revenue AS DOUBLE) * CAST(active_days AS DOUBLE)), "
-                + "count_if(CAST(revenue AS DOUBLE) < 0 OR CAST(active_days AS DOUBLE) < 0) "
-                + "FROM " + relation + " GROUP BY 1 ORDER BY 1";
+        // Users are first counted per distinct (arm, revenue, active days); the sums then run over those
+        // unique cells in a fixed order, so their last bits do not depend on how many threads read the file.
+        String order = " ORDER BY revenue, days)";
+        String sql = "SELECT arm, CAST(sum(n) AS BIGINT), sum(n * revenue" + order + ", sum(n * days" + order + ", "
+                + "sum(n * revenue * revenue" + order + ", sum(n * days * days" + order + ", "
+                + "sum(n * revenue * days" + order + ", "
+                + "CAST(coalesce(sum(n) FILTER (WHERE revenue < 0 OR days < 0), 0) AS BIGINT) "
+                + "FROM (SELECT arm, revenue, days, count(*) AS n FROM (SELECT trim(CAST(arm AS VARCHAR)) AS arm, "
+                + "CAST(revenue AS DOUBLE) AS revenue, CAST(active_days AS DOUBLE) AS days FROM " + relation + ") "
+                + "GROUP BY arm, revenue, days) GROUP BY arm ORDER BY arm";
         Map<String, double[]> out = new LinkedHashMap<>();
-        try (Connection db = DriverManager.getConnection("jdbc:duckdb:"); Statement s = db.createStatement();
+        try (Connection db = dev.cairn.models.data.Engine.connect(); Statement s = db.createStatement();
              ResultSet r = s.executeQuery(sql)) {
             while (r.next()) {
                 String arm = r.getString(1);

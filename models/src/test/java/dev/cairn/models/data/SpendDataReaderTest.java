@@ -111,4 +111,76 @@ class SpendDataReaderTest {
         assertTrue(e.getMessage().startsWith("n.csv: lines 7, 8, 9 and 2 more, column 'spend': spend must be >= 0"),
                 e.getMessage());
     }
+    /** Payer quantiles are the k-th smallest payer spend, k = floor(q (m - 1)) + 1, checked against a sort. */
+    @Test
+    void payerQuantilesAreTheOrderStatisticsTheChecksReplicate() throws IOException {
+        java.util.Random random = new java.util.Random(11);
+        StringBuilder sb = new StringBuilder("arm,spend\n");
+        List<Double> payersA = new ArrayList<>();
+        for (int i = 0; i < 5_000; i++) {
+            boolean payer = random.nextDouble() < 0.2;
+            // cents, so that amounts repeat as real prices do
+            double spend = payer ? Math.round(Math.exp(1 + random.nextGaussian()) * 100) / 100.0 + 0.01 : 0;
+            String arm = i % 2 == 0 ? "A" : "B";
+            sb.append(arm).append(',').append(spend).append('\n');
+            if (payer && arm.equals("A")) {
+                payersA.add(spend);
+            }
+        }
+        Files.writeString(dir.resolve("q.csv"), sb.toString());
+        ArmStats a = SpendDataReader.read(new DataSpec("q.csv", "users", null, null), dir, false).arm("A");
+        double[] sorted = payersA.stream().mapToDouble(Double::doubleValue).sorted().toArray();
+        int m = sorted.length;
+        assertEquals(m, a.payers());
+        assertEquals(sorted[(int) Math.floor(0.5 * (m - 1))], a.payerP50(), 0);
+        assertEquals(sorted[(int) Math.floor(0.9 * (m - 1))], a.payerP90(), 0);
+        assertEquals(sorted[(int) Math.floor(0.99 * (m - 1))], a.payerP99(), 0);
+        assertEquals(sorted[m - 1], a.spendMax(), 0);
+        double s1 = 0;
+        for (double y : sorted) {
+            s1 += Math.log(y);
+        }
+        assertEquals(s1, a.logSpendSum(), 1e-9 * Math.abs(s1));
+    }
+
+    /**
+     * A file the engine reads on several threads (many Parquet row groups) gives bit-identical statistics on
+     * every read: parallel floating-point sums would differ in their last bits from run to run.
+     */
+    @Test
+    void statisticsOfAParallelReadAreBitIdentical() throws IOException, SQLException {
+        java.util.Random random = new java.util.Random(5);
+        StringBuilder sb = new StringBuilder("arm,spend\n");
+        for (int i = 0; i < 200_000; i++) {
+            double spend = random.nextDouble() < 0.3 ? Math.exp(random.nextGaussian()) : 0;
+            sb.append((char) ('A' + i % 3)).append(',').append(spend).append('\n');
+        }
+        Path csv = dir.resolve("p.csv");
+        Files.writeString(csv, sb.toString());
+        Path parquet = dir.resolve("p.parquet");
+        try (Connection db = DriverManager.getConnection("jdbc:duckdb:"); Statement s = db.createStatement()) {
+            s.execute("COPY (SELECT * FROM read_csv('" + csv + "', header = true)) TO '" + parquet
+                    + "' (FORMAT PARQUET, ROW_GROUP_SIZE 2048)");
+        }
+        DataSpec spec = new DataSpec("p.parquet", "users", null, null);
+        List<ArmStats> first = SpendDataReader.read(spec, dir, false).arms();
+        for (int run = 0; run < 8; run++) {
+            assertEquals(first, SpendDataReader.read(spec, dir, false).arms(), "read " + run);
+        }
+    }
+    /**
+     * What the bit-identical statistics rest on: the engine adds a floating-point sum in the order its
+     * ORDER BY asks (1e16 plus a thousand ones is 1e16 + 1000 from the smallest up, 1e16 from the largest).
+     */
+    @Test
+    void theEngineSumsInTheOrderAsked() throws SQLException {
+        try (Connection db = Engine.connect(); Statement s = db.createStatement()) {
+            s.execute("CREATE TEMP TABLE t AS SELECT 1.0::DOUBLE AS x FROM range(1000) UNION ALL SELECT 1e16::DOUBLE");
+            try (java.sql.ResultSet r = s.executeQuery("SELECT sum(x ORDER BY x), sum(x ORDER BY x DESC) FROM t")) {
+                r.next();
+                assertEquals(1e16 + 1000, r.getDouble(1), 0);
+                assertEquals(1e16, r.getDouble(2), 0);
+            }
+        }
+    }
 }
