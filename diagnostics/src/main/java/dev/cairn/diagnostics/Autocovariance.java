@@ -43,6 +43,29 @@ final class Autocovariance {
         return out;
     }
 
+    /** Autocovariances at lags 0..lags-1 of each chain, summed directly (cheaper than a transform for a few lags). */
+    static double[][] direct(Flat chains, int lags) {
+        int m = chains.chains();
+        int n = chains.length();
+        double[] v = chains.values();
+        double[] centred = new double[n];
+        double[][] out = new double[m][lags];
+        for (int c = 0; c < m; c++) {
+            double mean = chains.mean(c);
+            for (int i = 0, k = c * n; i < n; i++, k++) {
+                centred[i] = v[k] - mean;
+            }
+            for (int t = 0; t < lags; t++) {
+                double s = 0;
+                for (int i = 0; i + t < n; i++) {
+                    s += centred[i] * centred[i + t];
+                }
+                out[c][t] = s / n;
+            }
+        }
+        return out;
+    }
+
     private static double[][] pair(Flat chains, int a, int b, int size, int lags) {
         int n = chains.length();
         double[] v = chains.values();

@@ -16,6 +16,9 @@ package dev.cairn.diagnostics;
  * The floor on tau caps ESS at M N log10(M N) for antithetic chains.
  */
 public final class Ess {
+    /** Lags summed directly before the FFT is used: enough for independent draws nearly always. */
+    static final int DIRECT_LAGS = 8;
+
     private Ess() {
     }
 
@@ -29,14 +32,24 @@ public final class Ess {
         if (n < 4) {
             return Double.NaN;
         }
-        // First with padding to a power of two of at least 1.25 N: lags up to (padded - N) are exact,
-        // which covers the truncation point of any reasonably mixing chain; if not, again with full padding.
-        double ess = of(chains, Autocovariance.of(chains, Integer.highestOneBit(n + n / 4) << 1));
+        // Independent and well-mixing draws truncate within a few lags: those are summed directly, O(N) a
+        // lag. A chain that needs more goes to the FFT, where zero padding to L makes lags 0..L - N exact:
+        // first the shortest power of two above N + 16, then 1.25 N, then full padding. Every stage gives
+        // the same autocovariances at the lags it covers.
+        double ess = of(chains, Autocovariance.direct(chains, Math.min(n, DIRECT_LAGS)));
+        int shortest = Integer.highestOneBit(n + 16) << 1;
+        if (Double.isNaN(ess)) {
+            ess = of(chains, Autocovariance.of(chains, shortest));
+        }
+        int longer = Integer.highestOneBit(n + n / 4) << 1;
+        if (Double.isNaN(ess) && longer > shortest) {
+            ess = of(chains, Autocovariance.of(chains, longer));
+        }
         return Double.isNaN(ess) ? of(chains, Autocovariance.of(chains, 0)) : ess;
     }
 
     /** ESS from autocovariances exact up to lag acov[c].length - 1; NaN when more lags are needed. */
-    private static double of(Flat chains, double[][] acov) {
+    static double of(Flat chains, double[][] acov) {
         int m = chains.chains();
         int n = chains.length();
         int lags = acov[0].length;

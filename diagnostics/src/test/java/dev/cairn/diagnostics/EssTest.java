@@ -45,6 +45,21 @@ class EssTest {
         }
     }
 
+    /**
+     * The staged padding (shortest transform first, longer only when more lags are needed) gives the ESS
+     * that full padding gives, for chains that truncate early, late and very late.
+     */
+    @ParameterizedTest(name = "rho = {0}")
+    @ValueSource(doubles = {0.0, 0.6, 0.95, 0.995, -0.5})
+    void stagedPaddingGivesTheFullPaddingEss(double rho) {
+        for (int n : new int[] {1000, 1009, 2000, 4096}) {
+            Flat chains = Flat.of(Simulated.ar1(4, n, rho, 31 + n));
+            double staged = Ess.of(chains);
+            double full = Ess.of(chains, Autocovariance.of(chains, 0));
+            assertEquals(full, staged, 1e-9 * full, "n=" + n + " rho=" + rho);
+        }
+    }
+
     /** Property over seeded random chain shapes: 0 < ESS <= S log10 S (the antithetic cap). */
     @Test
     void essIsPositiveAndBounded() {
