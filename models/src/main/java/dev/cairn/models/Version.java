@@ -10,7 +10,13 @@ public final class Version {
     private Version() {
     }
 
+    private static final String VERSION = read();
+
     public static String get() {
+        return VERSION;
+    }
+
+    private static String read() {
         Properties p = new Properties();
         try (InputStream in = Version.class.getResourceAsStream("/dev/cairn/models/version.properties")) {
             if (in != null) {

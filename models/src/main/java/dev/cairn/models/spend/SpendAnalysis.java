@@ -13,6 +13,7 @@ import java.util.List;
 import java.util.Map;
 import org.apache.commons.math3.distribution.BinomialDistribution;
 import org.apache.commons.math3.special.Erf;
+import dev.cairn.samplers.RandomStreams;
 import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.ChengBetaSampler;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
@@ -54,17 +55,27 @@ public final class SpendAnalysis {
                 : List.of(SpendPosterior.PAYER_RATE);
     }
 
+    /** Per-arm summaries (arms in parallel; each summary depends on its own draws only). */
     public static Map<String, ArmSummary> arms(Draws draws, SpendData data, double level) {
-        Map<String, ArmSummary> out = new LinkedHashMap<>();
-        for (ArmStats a : data.arms()) {
+        List<ArmSummary> summaries = inParallel(data.arms().size(), k -> {
+            ArmStats a = data.arms().get(k);
             Interval rate = Interval.of(draws.pooled(SpendPosterior.name(SpendPosterior.PAYER_RATE, a.arm())), level);
             Interval arpu = data.hasSpend()
                     ? Interval.of(draws.pooled(SpendPosterior.name(SpendPosterior.ARPU, a.arm())), level) : null;
             Interval arppu = data.hasSpend()
                     ? Interval.of(draws.pooled(SpendPosterior.name(SpendPosterior.ARPPU, a.arm())), level) : null;
-            out.put(a.arm(), new ArmSummary(a.users(), a.payers(), arpu, rate, arppu));
+            return new ArmSummary(a.users(), a.payers(), arpu, rate, arppu);
+        });
+        Map<String, ArmSummary> out = new LinkedHashMap<>();
+        for (int k = 0; k < summaries.size(); k++) {
+            out.put(data.arms().get(k).arm(), summaries.get(k));
         }
         return out;
+    }
+
+    /** {@code task(0..n-1)} on the common pool, results in index order: the same on any number of threads. */
+    static <T> List<T> inParallel(int n, java.util.function.IntFunction<T> task) {
+        return java.util.stream.IntStream.range(0, n).parallel().mapToObj(task).toList();
     }
 
     /** Every non-control arm against the control on every metric, draw by draw. */
@@ -125,16 +136,20 @@ public final class SpendAnalysis {
     public static List<Comparison> compareAll(List<String> arms, String control, List<String> metrics,
                                               java.util.function.BiFunction<String, String, double[]> drawsOf,
                                               double level) {
-        List<Comparison> out = new ArrayList<>();
+        List<String[]> pairs = new ArrayList<>();
         for (String a : arms) {
             if (a.equals(control)) {
                 continue;
             }
             for (String metric : metrics) {
-                out.add(compare(a, control, metric, drawsOf.apply(metric, a), drawsOf.apply(metric, control), level));
+                pairs.add(new String[] {a, metric});
             }
         }
-        return out;
+        return new ArrayList<>(inParallel(pairs.size(), k -> {
+            String a = pairs.get(k)[0];
+            String metric = pairs.get(k)[1];
+            return compare(a, control, metric, drawsOf.apply(metric, a), drawsOf.apply(metric, control), level);
+        }));
     }
 
     /**
@@ -147,54 +162,75 @@ public final class SpendAnalysis {
      * quantile function. The replicated mean is simulated payer by payer up to 20,000 payers and by the
      * central limit theorem above.
      */
-    public static List<Check> checks(Draws draws, SpendData data, UniformRandomProvider rng) {
-        return checks(draws, data, rng, null);
+    public static List<Check> checks(Draws draws, SpendData data, long seed, int firstStream) {
+        return checks(draws, data, seed, firstStream, null);
     }
 
-    /** As {@link #checks(Draws, SpendData, UniformRandomProvider)}, keeping each replicated statistic under "arm/statistic". */
-    public static List<Check> checks(Draws draws, SpendData data, UniformRandomProvider rng, Map<String, Object> replicatedOut) {
-        List<Check> out = new ArrayList<>();
+    /**
+     * As {@link #checks(Draws, SpendData, long, int)}, keeping each replicated statistic under
+     * "arm/statistic". Arm k replicates with random stream {@code firstStream + k} of {@code seed}, so the
+     * arms run in parallel and the checks are the same on any number of threads.
+     */
+    public static List<Check> checks(Draws draws, SpendData data, long seed, int firstStream,
+                                     Map<String, Object> replicatedOut) {
         if (!data.hasSpend()) {
-            return out;
+            return new ArrayList<>();
         }
+        List<Map<String, Object>> kept = new ArrayList<>();
+        for (int k = 0; k < data.arms().size(); k++) {
+            kept.add(new LinkedHashMap<>());
+        }
+        List<List<Check>> perArm = inParallel(data.arms().size(), k -> checks(draws, data, data.arms().get(k),
+                RandomStreams.forChain(seed, firstStream + k), kept.get(k)));
+        List<Check> out = new ArrayList<>();
+        for (int k = 0; k < perArm.size(); k++) {
+            out.addAll(perArm.get(k));
+            if (replicatedOut != null) {
+                replicatedOut.putAll(kept.get(k));
+            }
+        }
+        return out;
+    }
+
+    private static List<Check> checks(Draws draws, SpendData data, ArmStats a, UniformRandomProvider rng,
+                                      Map<String, Object> replicatedOut) {
+        List<Check> out = new ArrayList<>();
         int total = draws.chains() * draws.iterations();
         int r = Math.min(REPLICATIONS, total);
         ZigguratSampler.NormalizedGaussian gaussian = ZigguratSampler.NormalizedGaussian.of(rng);
         boolean observedSpend = data.hasObservedSpendStatistics();
-        for (ArmStats a : data.arms()) {
-            double[] p = draws.pooled(SpendPosterior.name(SpendPosterior.PAYER_RATE, a.arm()));
-            double[] mu = draws.pooled(SpendPosterior.name(SpendPosterior.LOG_SPEND_MEAN, a.arm()));
-            double[] sigma = draws.pooled(SpendPosterior.name(SpendPosterior.LOG_SPEND_SD, a.arm()));
-            String[] names = {"zeroShare", "meanSpend", "payerP50", "payerP90", "payerP99", "maxSpend"};
-            double[] observed = {1 - (double) a.payers() / a.users(), a.spendSum() / a.users(), a.payerP50(),
-                a.payerP90(), a.payerP99(), a.spendMax()};
-            int statistics = observedSpend && a.payers() > 0 ? names.length : 1;
-            double[] above = new double[statistics];
-            double[][] kept = new double[statistics][r];
-            for (int j = 0; j < r; j++) {
-                int i = (int) ((long) j * total / r);
-                int payers = replicatedPayers(a.users(), p[i], rng);
-                double[] replicated = new double[statistics];
-                replicated[0] = 1 - (double) payers / a.users();
-                if (statistics > 1) {
-                    replicated[1] = payers == 0 ? 0 : replicatedTotal(payers, mu[i], sigma[i], gaussian) / a.users();
-                    replicated[2] = orderStatistic(payers, 0.5, mu[i], sigma[i], rng);
-                    replicated[3] = orderStatistic(payers, 0.9, mu[i], sigma[i], rng);
-                    replicated[4] = orderStatistic(payers, 0.99, mu[i], sigma[i], rng);
-                    replicated[5] = payers == 0 ? 0 : maximum(payers, mu[i], sigma[i], rng);
-                }
-                for (int s = 0; s < statistics; s++) {
-                    above[s] += replicated[s] > observed[s] ? 1 : replicated[s] == observed[s] ? 0.5 : 0;
-                    kept[s][j] = replicated[s];
-                }
+        double[] p = draws.pooled(SpendPosterior.name(SpendPosterior.PAYER_RATE, a.arm()));
+        double[] mu = draws.pooled(SpendPosterior.name(SpendPosterior.LOG_SPEND_MEAN, a.arm()));
+        double[] sigma = draws.pooled(SpendPosterior.name(SpendPosterior.LOG_SPEND_SD, a.arm()));
+        String[] names = {"zeroShare", "meanSpend", "payerP50", "payerP90", "payerP99", "maxSpend"};
+        double[] observed = {1 - (double) a.payers() / a.users(), a.spendSum() / a.users(), a.payerP50(),
+            a.payerP90(), a.payerP99(), a.spendMax()};
+        int statistics = observedSpend && a.payers() > 0 ? names.length : 1;
+        double[] above = new double[statistics];
+        double[][] kept = new double[statistics][r];
+        for (int j = 0; j < r; j++) {
+            int i = (int) ((long) j * total / r);
+            int payers = replicatedPayers(a.users(), p[i], rng);
+            double[] replicated = new double[statistics];
+            replicated[0] = 1 - (double) payers / a.users();
+            if (statistics > 1) {
+                replicated[1] = payers == 0 ? 0 : replicatedTotal(payers, mu[i], sigma[i], gaussian) / a.users();
+                replicated[2] = orderStatistic(payers, 0.5, mu[i], sigma[i], rng);
+                replicated[3] = orderStatistic(payers, 0.9, mu[i], sigma[i], rng);
+                replicated[4] = orderStatistic(payers, 0.99, mu[i], sigma[i], rng);
+                replicated[5] = payers == 0 ? 0 : maximum(payers, mu[i], sigma[i], rng);
             }
             for (int s = 0; s < statistics; s++) {
-                if (replicatedOut != null) {
-                    replicatedOut.put(a.arm() + "/" + names[s], kept[s]);
-                }
-                double pValue = above[s] / r;
-                out.add(new Check(a.arm(), names[s], observed[s], pValue, pValue < MISFIT || pValue > 1 - MISFIT));
+                above[s] += replicated[s] > observed[s] ? 1 : replicated[s] == observed[s] ? 0.5 : 0;
+                kept[s][j] = replicated[s];
             }
+        }
+        for (int s = 0; s < statistics; s++) {
+            if (replicatedOut != null) {
+                replicatedOut.put(a.arm() + "/" + names[s], kept[s]);
+            }
+            double pValue = above[s] / r;
+            out.add(new Check(a.arm(), names[s], observed[s], pValue, pValue < MISFIT || pValue > 1 - MISFIT));
         }
         return out;
     }

@@ -17,7 +17,6 @@ import dev.cairn.models.result.Run;
 import dev.cairn.models.spec.SamplerSpec;
 import dev.cairn.models.spec.Spec;
 import dev.cairn.samplers.Draws;
-import dev.cairn.samplers.RandomStreams;
 import dev.cairn.samplers.RunSettings;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -51,7 +50,7 @@ public final class SpendFit {
 
         double level = spec.interval();
         java.util.Map<String, Object> figures = new java.util.LinkedHashMap<>();
-        List<Check> checks = SpendAnalysis.checks(draws, data, RandomStreams.forChain(s.seed(), s.chains()), figures);
+        List<Check> checks = SpendAnalysis.checks(draws, data, s.seed(), s.chains(), figures);
         List<String> warnings = new ArrayList<>(data.warnings());
         warnings.addAll(SpendAnalysis.warnings(checks));
         if (!report.converged()) {
