@@ -31,7 +31,7 @@ import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
  * <ol>
  *   <li>10 million users in 4 arms as CSV: {@code fit} wall time against the bare aggregation query an
  *       analyst would run for ARPU on the same file (users, payers and revenue per arm) in an open session,
- *       best of 9 interleaved rounds each; the plainest query (count and sum per arm) is shown too;</li>
+ *       best of 9 interleaved rounds each after 5 warm-up rounds; the plainest query (count and sum per arm) is shown too;</li>
  *   <li>the same data as Parquet: fit time CSV / Parquet;</li>
  *   <li>peak resident memory of {@code cairn fit} on the CSV in a child process (needs /usr/bin/time);</li>
  *   <li>sampling time (slice, 4 chains x 2,000 iterations) for 10^4 .. 10^7 users: it sees only
@@ -44,6 +44,8 @@ public final class SpendScaling {
     private static final String[] ARMS = {"A", "B", "C", "D"};
     /** Rounds of the interleaved measures; the best of each is kept. */
     private static final int ROUNDS = 9;
+    /** Rounds run first and not counted, so that the JIT has compiled the fit's code (steady state, as JMH). */
+    private static final int WARMUP_ROUNDS = 5;
     private static final String[] COUNTRIES = {"DE", "US", "BR", "JP", "FR", "IN", "KR"};
 
     private SpendScaling() {
@@ -83,11 +85,13 @@ public final class SpendScaling {
         };
         double[] best = new double[work.length];
         java.util.Arrays.fill(best, Double.MAX_VALUE);
-        for (int round = 0; round < ROUNDS; round++) {
+        for (int round = -WARMUP_ROUNDS; round < ROUNDS; round++) {
             for (int k = 0; k < work.length; k++) {
                 long t0 = System.nanoTime();
                 work[k].run();
-                best[k] = Math.min(best[k], (System.nanoTime() - t0) / 1e9);
+                if (round >= 0) {
+                    best[k] = Math.min(best[k], (System.nanoTime() - t0) / 1e9);
+                }
             }
         }
         java.util.Map<String, Double> times = new java.util.HashMap<>();

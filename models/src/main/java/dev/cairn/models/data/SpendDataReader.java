@@ -16,9 +16,8 @@ import java.util.List;
  * line and column, never dropped.
  *
  * <p>The {@code users} layout query is {@link #usersQuery}: one scan, grouped by arm, counting users and
- * payers and summing log spend and its square over payers, with the observed statistics the predictive
- * checks need and the checks for bad values riding along.
- * ({@code ln} is guarded by CASE because the engine evaluates it even for rows a FILTER excludes.)
+ * gathering the non-zero values, from which come payers, log spend and its square summed over payers, the
+ * observed statistics the predictive checks need and the checks for bad values.
  */
 public final class SpendDataReader {
     static final String ARM = "arm";
@@ -195,14 +194,14 @@ public final class SpendDataReader {
     /**
      * The users-layout query: one scan, per arm (per segment and arm when a segment expression is given).
      *
-     * <p>The scan only counts users per distinct (arm, spend) value: nearly all users of a game spend
-     * nothing, and payers' amounts repeat (prices), so ten million users make a few tens of thousands of
-     * such cells. Everything else is computed over the cells:
+     * <p>The scan counts users and values per arm and gathers the non-zero values into a list: nearly all
+     * users of a game spend nothing, so the lists hold a few percent of the rows. Sorted, a list gives the
+     * rest without another pass:
      * <ul>
-     *   <li>users, users with a value (fewer means empty cells), payers (spend &gt; 0);</li>
+     *   <li>payers (spend &gt; 0), and fewer values than users means empty cells;</li>
      *   <li>S1 = sum of log spend and S2 = sum of its square over payers, and the payers' total spend, each
-     *       summed in increasing order of spend: the cells are unique per arm, so the order, and with it the
-     *       last bit of each sum, is the same however many threads read the file;</li>
+     *       added in increasing order of spend, so the last bit of each sum is the same however many threads
+     *       read the file (a parallel sum's is not);</li>
      *   <li>the smallest and largest spend (a negative minimum means negative spend, a NaN or infinite
      *       extreme means a value that is not a finite number);</li>
      *   <li>payers' p50, p90 and p99: the k-th smallest payer spend, k = floor(q (m - 1)) + 1 of m payers,
@@ -211,30 +210,26 @@ public final class SpendDataReader {
      */
     static String usersQuery(String armExpr, String spendColumn, String relation, String segmentExpr) {
         return """
-                SELECT %1$s,
-                       CAST(sum(n) AS BIGINT) AS users,
-                       CAST(coalesce(sum(n) FILTER (WHERE spend IS NOT NULL), 0) AS BIGINT) AS present,
-                       CAST(coalesce(sum(n) FILTER (WHERE spend > 0), 0) AS BIGINT) AS payers,
-                       coalesce(sum(n * ln(spend) ORDER BY spend) FILTER (WHERE spend > 0), 0) AS log_spend_sum,
-                       coalesce(sum(n * ln(spend) * ln(spend) ORDER BY spend) FILTER (WHERE spend > 0), 0)
-                           AS log_spend_sq_sum,
-                       coalesce(sum(n * spend ORDER BY spend) FILTER (WHERE spend > 0), 0) AS spend_sum,
-                       min(spend) AS spend_min,
-                       max(spend) AS spend_max,
-                       min(spend) FILTER (WHERE spend > 0 AND payers_up_to >= floor(0.5 * (payers_all - 1)) + 1)
-                           AS payer_p50,
-                       min(spend) FILTER (WHERE spend > 0 AND payers_up_to >= floor(0.9 * (payers_all - 1)) + 1)
-                           AS payer_p90,
-                       min(spend) FILTER (WHERE spend > 0 AND payers_up_to >= floor(0.99 * (payers_all - 1)) + 1)
-                           AS payer_p99
-                FROM (SELECT *,
-                             sum(n) FILTER (WHERE spend > 0) OVER (PARTITION BY %1$s ORDER BY spend) AS payers_up_to,
-                             sum(n) FILTER (WHERE spend > 0) OVER (PARTITION BY %1$s) AS payers_all
-                      FROM (SELECT %1$s, spend, count(*) AS n
+                SELECT %1$s, users, present,
+                       coalesce(len(paid), 0) AS payers,
+                       coalesce(list_sum(list_transform(paid, lambda y: ln(y))), 0) AS log_spend_sum,
+                       coalesce(list_sum(list_transform(paid, lambda y: ln(y) * ln(y))), 0) AS log_spend_sq_sum,
+                       coalesce(list_sum(paid), 0) AS spend_sum,
+                       CASE WHEN present > coalesce(len(nonzero), 0) THEN least(coalesce(nonzero[1], 0), 0)
+                            ELSE nonzero[1] END AS spend_min,
+                       CASE WHEN present > coalesce(len(nonzero), 0) THEN greatest(coalesce(nonzero[-1], 0), 0)
+                            ELSE nonzero[-1] END AS spend_max,
+                       paid[CAST(floor(0.5 * (len(paid) - 1)) AS BIGINT) + 1] AS payer_p50,
+                       paid[CAST(floor(0.9 * (len(paid) - 1)) AS BIGINT) + 1] AS payer_p90,
+                       paid[CAST(floor(0.99 * (len(paid) - 1)) AS BIGINT) + 1] AS payer_p99
+                FROM (SELECT *, list_filter(nonzero, lambda y: y > 0) AS paid
+                      FROM (SELECT %1$s,
+                                   count(*) AS users,
+                                   count(spend) AS present,
+                                   list_sort(list(spend) FILTER (WHERE spend <> 0)) AS nonzero
                             FROM (SELECT %2$s, CAST(%3$s AS DOUBLE) AS spend FROM %4$s)
-                            GROUP BY %1$s, spend))
-                GROUP BY %1$s ORDER BY %1$s""".formatted(keys(segmentExpr), selected(armExpr, segmentExpr),
-                spendColumn, relation);
+                            GROUP BY %1$s))
+                ORDER BY %1$s""".formatted(keys(segmentExpr), selected(armExpr, segmentExpr), spendColumn, relation);
     }
 
     /** The grouping keys: the arm, or the segment and the arm. */

@@ -183,4 +183,23 @@ class SpendDataReaderTest {
             }
         }
     }
+    /** An arm where nobody pays and one where everybody pays: counts, sums, extremes and quantiles hold. */
+    @Test
+    void armsWithoutPayersAndWithoutZerosAreRead() throws IOException {
+        Files.writeString(dir.resolve("e.csv"), "arm,spend\nA,0\nA,0\nB,3\nB,1\nB,2\n");
+        SpendData d = SpendDataReader.read(new DataSpec("e.csv", "users", null, null), dir, false);
+        ArmStats a = d.arm("A");
+        assertEquals(2, a.users());
+        assertEquals(0, a.payers());
+        assertEquals(0, a.logSpendSum(), 0);
+        assertEquals(0, a.spendMax(), 0);
+        assertTrue(Double.isNaN(a.payerP50()));
+        ArmStats b = d.arm("B");
+        assertEquals(3, b.payers());
+        assertEquals(3, b.spendMax(), 0);
+        assertEquals(6, b.spendSum(), 0);
+        assertEquals(2, b.payerP50(), 0, "k = floor(0.5 * 2) + 1 = 2nd of 1, 2, 3");
+        assertEquals(2, b.payerP90(), 0, "k = floor(0.9 * 2) + 1 = 2nd");
+        assertEquals(Math.log(6), b.logSpendSum(), 1e-15);
+    }
 }
