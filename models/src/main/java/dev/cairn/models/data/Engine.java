@@ -27,8 +27,11 @@ public final class Engine {
     }
 
     /** A new connection to the shared engine; close it when done (the engine itself stays). */
-    public static Connection connect() throws SQLException {
-        return root().duplicate();
+    public static synchronized Connection connect() throws SQLException {
+        if (shared == null || shared.isClosed()) {
+            shared = (DuckDBConnection) DriverManager.getConnection(URL);
+        }
+        return shared.duplicate();
     }
 
     /** A connection to a private engine that runs one thread, so rows are numbered in file order. */
@@ -41,12 +44,5 @@ public final class Engine {
             throw e;
         }
         return db;
-    }
-
-    private static synchronized DuckDBConnection root() throws SQLException {
-        if (shared == null || shared.isClosed()) {
-            shared = (DuckDBConnection) DriverManager.getConnection(URL);
-        }
-        return shared;
     }
 }
