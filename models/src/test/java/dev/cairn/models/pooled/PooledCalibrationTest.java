@@ -72,11 +72,45 @@ class PooledCalibrationTest {
     }
 
     /**
-     * Countries with a known true lift: over repeated data sets the 90% intervals cover the truth about 90% of
-     * the time; a small country's estimate moves most of the way to the overall lift, a big one's barely moves.
+     * Over data sets whose truth is drawn from the prior the fit uses, 90% intervals cover the truth 90% of the
+     * time (the calibration a Bayesian interval promises; at one fixed truth it may cover more or less, e.g.
+     * more when the prior's spread exceeds the truth's). The ten countries of a data set share mu and tau,
+     * so their hits are correlated: the tolerance takes a design effect of 2.
      */
     @Test
-    void coverageAndShrinkage() {
+    void coverageOverThePrior() {
+        UniformRandomProvider rng = RandomStreams.forChain(79, 0);
+        ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
+        int replications = REPLICATIONS / 5;
+        int covered = 0, total = 0;
+        for (int r = 0; r < replications; r++) {
+            double mu = 0.1 * g.sample();
+            double tau = Math.abs(0.1 * g.sample());
+            double[] theta = new double[SE.length];
+            double[] y = new double[SE.length];
+            for (int j = 0; j < SE.length; j++) {
+                theta[j] = mu + tau * g.sample();
+                y[j] = theta[j] + SE[j] * g.sample();
+            }
+            Estimates data = new Estimates(names(), y, SE, "coverage", "");
+            Draws d = PooledEffectsPosterior.sample(data, priors(data), RunSettings.of(2, 300, 1000, 2000 + r).withThreads(1),
+                    Progress.NONE, new Cancellation());
+            for (int j = 0; j < SE.length; j++) {
+                double[] draws = d.pooled("effect[c" + j + "]");
+                covered += theta[j] >= Quantiles.of(draws, 0.05) && theta[j] <= Quantiles.of(draws, 0.95) ? 1 : 0;
+                total++;
+            }
+        }
+        double coverage = (double) covered / total;
+        assertEquals(0.90, coverage, 4 * Math.sqrt(2 * 0.09 / total) + 0.01, "coverage of 90% intervals");
+    }
+
+    /**
+     * Countries with a known true lift (mu = 0.05, tau = 0.03): a small country's estimate moves most of the
+     * way to the overall lift, a big one's barely moves, and the intervals do not cover less than promised.
+     */
+    @Test
+    void shrinkageAtAKnownTruth() {
         UniformRandomProvider rng = RandomStreams.forChain(78, 0);
         ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
         int replications = REPLICATIONS / 5;
@@ -96,8 +130,7 @@ class PooledCalibrationTest {
             double pooledMean = java.util.Arrays.stream(d.pooled("mu")).average().orElseThrow();
             for (int j = 0; j < SE.length; j++) {
                 double[] draws = d.pooled("effect[c" + j + "]");
-                double lo = Quantiles.of(draws, 0.05), hi = Quantiles.of(draws, 0.95);
-                covered += theta[j] >= lo && theta[j] <= hi ? 1 : 0;
+                covered += theta[j] >= Quantiles.of(draws, 0.05) && theta[j] <= Quantiles.of(draws, 0.95) ? 1 : 0;
                 total++;
             }
             // Share of the way from the raw estimate to the pooled mean.
@@ -107,7 +140,7 @@ class PooledCalibrationTest {
             smallShift += (y[9] - small) / (y[9] - pooledMean) / replications;
         }
         double coverage = (double) covered / total;
-        assertEquals(0.90, coverage, 4 * Math.sqrt(0.09 / total) + 0.01, "coverage of 90% intervals");
+        assertTrue(coverage >= 0.90 - 4 * Math.sqrt(2 * 0.09 / total) - 0.01, "coverage of 90% intervals " + coverage);
         assertTrue(smallShift > 0.8, "the smallest country moves most of the way to the overall lift: " + smallShift);
         assertTrue(bigShift < 0.5, "the biggest country keeps most of its own estimate: " + bigShift);
     }

@@ -130,7 +130,12 @@ class RetentionCalibrationTest {
         }
         double coverage = (double) covered / total;
         assertEquals(0.90, coverage, FULL ? 0.05 : 0.12, "coverage of 90% intervals of young cohorts' D7 and D30");
-        assertTrue(driftCovered >= replications - 1, "drift scale recovered in " + driftCovered + " of " + replications);
+        // A 95% interval misses now and then by design: allow the misses a calibrated interval exceeds only
+        // once in a thousand runs (99.9% quantile of Binomial(replications, 0.05), commons-math3).
+        int allowedMisses = new org.apache.commons.math3.distribution.BinomialDistribution(null, replications, 0.05)
+                .inverseCumulativeProbability(0.999);
+        assertTrue(replications - driftCovered <= allowedMisses, "drift scale recovered in " + driftCovered + " of "
+                + replications + " (at most " + allowedMisses + " misses allowed)");
         assertEquals(replications, armDetected, "arm offset of +0.3 on the logit detected every time");
     }
 
