@@ -1,5 +1,8 @@
 package dev.cairn.models.data;
 
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.sql.Connection;
 import java.sql.DriverManager;
 import java.sql.SQLException;
@@ -18,10 +21,14 @@ import org.duckdb.DuckDBConnection;
  * <p>{@link #ordered()} starts a private single-threaded instance instead, for the few reads that number
  * rows in file order ({@code row_number() OVER ()} follows the file only on one thread): naming bad rows
  * and reading small retention tables.
+ *
+ * <p>Every instance spills to a temporary folder of this process, never to the working directory (the
+ * engine's default for in-memory databases).
  */
 public final class Engine {
     private static final String URL = "jdbc:duckdb:";
     private static DuckDBConnection shared;
+    private static Path spill;
 
     private Engine() {
     }
@@ -29,20 +36,39 @@ public final class Engine {
     /** A new connection to the shared engine; close it when done (the engine itself stays). */
     public static synchronized Connection connect() throws SQLException {
         if (shared == null || shared.isClosed()) {
-            shared = (DuckDBConnection) DriverManager.getConnection(URL);
+            shared = (DuckDBConnection) start(null);
         }
         return shared.duplicate();
     }
 
     /** A connection to a private engine that runs one thread, so rows are numbered in file order. */
     public static Connection ordered() throws SQLException {
+        return start("SET threads = 1");
+    }
+
+    private static Connection start(String setting) throws SQLException {
         Connection db = DriverManager.getConnection(URL);
         try (Statement s = db.createStatement()) {
-            s.execute("SET threads = 1");
+            s.execute("SET temp_directory = " + Sql.literal(spillFolder()));
+            if (setting != null) {
+                s.execute(setting);
+            }
         } catch (SQLException e) {
             db.close();
             throw e;
         }
         return db;
+    }
+
+    private static synchronized String spillFolder() throws SQLException {
+        if (spill == null) {
+            try {
+                spill = Files.createTempDirectory("cairn-engine-");
+            } catch (IOException e) {
+                throw new SQLException("cannot make a temporary folder for the SQL engine: " + e.getMessage(), e);
+            }
+            spill.toFile().deleteOnExit();
+        }
+        return spill.toString();
     }
 }

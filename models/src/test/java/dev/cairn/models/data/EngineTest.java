@@ -2,6 +2,7 @@ package dev.cairn.models.data;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.cairn.models.spec.DataSpec;
 import java.io.IOException;
@@ -60,6 +61,18 @@ class EngineTest {
             }
         } finally {
             pool.shutdown();
+        }
+    }
+    /** Engines spill to a temporary folder of the process, never to the working directory. */
+    @Test
+    void enginesSpillOutsideTheWorkingDirectory() throws SQLException {
+        for (Connection db : new Connection[] {Engine.connect(), Engine.ordered()}) {
+            try (db; Statement s = db.createStatement();
+                 java.sql.ResultSet r = s.executeQuery("SELECT current_setting('temp_directory')")) {
+                r.next();
+                Path temp = Path.of(r.getString(1));
+                assertTrue(temp.isAbsolute() && temp.startsWith(Path.of(System.getProperty("java.io.tmpdir"))), temp.toString());
+            }
         }
     }
 }
