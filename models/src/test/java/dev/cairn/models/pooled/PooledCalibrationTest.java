@@ -15,7 +15,6 @@ import dev.cairn.samplers.RunSettings;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
-import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 import org.junit.jupiter.api.Test;
 
@@ -38,6 +37,39 @@ class PooledCalibrationTest {
         return n;
     }
 
+    private static ZigguratSampler.NormalizedGaussian gaussian(long seed) {
+        return ZigguratSampler.NormalizedGaussian.of(RandomStreams.forChain(seed, 0));
+    }
+
+    /** One simulated data set and its fit. */
+    private record Replication(double[] theta, double[] y, Draws draws) {
+    }
+
+    /** True effects theta_j ~ N(mu, tau^2), estimates y_j ~ N(theta_j, SE_j^2), fitted on one thread. */
+    private static Replication replicate(double mu, double tau, ZigguratSampler.NormalizedGaussian g,
+                                         RunSettings settings) {
+        double[] theta = new double[SE.length];
+        double[] y = new double[SE.length];
+        for (int j = 0; j < SE.length; j++) {
+            theta[j] = mu + tau * g.sample();
+            y[j] = theta[j] + SE[j] * g.sample();
+        }
+        Estimates data = new Estimates(names(), y, SE, "simulated", "");
+        Draws d = PooledEffectsPosterior.sample(data, priors(data), settings.withThreads(1), Progress.NONE,
+                new Cancellation());
+        return new Replication(theta, y, d);
+    }
+
+    /** How many of the ten effects' 90% intervals hold the true effect. */
+    private static int covered(Draws d, double[] theta) {
+        int covered = 0;
+        for (int j = 0; j < SE.length; j++) {
+            double[] draws = d.pooled("effect[c" + j + "]");
+            covered += theta[j] >= Quantiles.of(draws, 0.05) && theta[j] <= Quantiles.of(draws, 0.95) ? 1 : 0;
+        }
+        return covered;
+    }
+
     private static PooledPriors priors(Estimates data) {
         return PooledPriors.of(new PriorsSpec(null, null, null, null, null,
                 new PriorsSpec.MuPrior("normal", 0.0, 0.1), new PriorsSpec.TauPrior("half-normal", null, null, 0.1, null)), data);
@@ -45,21 +77,14 @@ class PooledCalibrationTest {
 
     @Test
     void simulationBasedCalibration() {
-        UniformRandomProvider rng = RandomStreams.forChain(77, 0);
-        ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
+        ZigguratSampler.NormalizedGaussian g = gaussian(77);
         Sbc sbc = new Sbc();
         for (int r = 0; r < REPLICATIONS; r++) {
             double mu = 0.1 * g.sample();
             double tau = Math.abs(0.1 * g.sample());
-            double[] theta = new double[SE.length];
-            double[] y = new double[SE.length];
-            for (int j = 0; j < SE.length; j++) {
-                theta[j] = mu + tau * g.sample();
-                y[j] = theta[j] + SE[j] * g.sample();
-            }
-            Estimates data = new Estimates(names(), y, SE, "sbc", "");
-            Draws d = PooledEffectsPosterior.sample(data, priors(data), RunSettings.of(2, 200, 495, r).withThreads(1),
-                    Progress.NONE, new Cancellation());
+            Replication rep = replicate(mu, tau, g, RunSettings.of(2, 200, 495, r));
+            double[] theta = rep.theta();
+            Draws d = rep.draws();
             sbc.add("mu", mu, Sbc.thin(d.pooled("mu"), 99));
             sbc.add("tau", tau, Sbc.thin(d.pooled("tau"), 99));
             sbc.add("theta[c0]", theta[0], Sbc.thin(d.pooled("effect[c0]"), 99));
@@ -79,27 +104,14 @@ class PooledCalibrationTest {
      */
     @Test
     void coverageOverThePrior() {
-        UniformRandomProvider rng = RandomStreams.forChain(79, 0);
-        ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
-        int replications = REPLICATIONS / 5;
+        ZigguratSampler.NormalizedGaussian g = gaussian(79);
         int covered = 0, total = 0;
-        for (int r = 0; r < replications; r++) {
+        for (int r = 0; r < REPLICATIONS / 5; r++) {
             double mu = 0.1 * g.sample();
             double tau = Math.abs(0.1 * g.sample());
-            double[] theta = new double[SE.length];
-            double[] y = new double[SE.length];
-            for (int j = 0; j < SE.length; j++) {
-                theta[j] = mu + tau * g.sample();
-                y[j] = theta[j] + SE[j] * g.sample();
-            }
-            Estimates data = new Estimates(names(), y, SE, "coverage", "");
-            Draws d = PooledEffectsPosterior.sample(data, priors(data), RunSettings.of(2, 300, 1000, 2000 + r).withThreads(1),
-                    Progress.NONE, new Cancellation());
-            for (int j = 0; j < SE.length; j++) {
-                double[] draws = d.pooled("effect[c" + j + "]");
-                covered += theta[j] >= Quantiles.of(draws, 0.05) && theta[j] <= Quantiles.of(draws, 0.95) ? 1 : 0;
-                total++;
-            }
+            Replication rep = replicate(mu, tau, g, RunSettings.of(2, 300, 1000, 2000 + r));
+            covered += covered(rep.draws(), rep.theta());
+            total += SE.length;
         }
         double coverage = (double) covered / total;
         assertEquals(0.90, coverage, 4 * Math.sqrt(2 * 0.09 / total) + 0.01, "coverage of 90% intervals");
@@ -111,28 +123,17 @@ class PooledCalibrationTest {
      */
     @Test
     void shrinkageAtAKnownTruth() {
-        UniformRandomProvider rng = RandomStreams.forChain(78, 0);
-        ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
+        ZigguratSampler.NormalizedGaussian g = gaussian(78);
         int replications = REPLICATIONS / 5;
         int covered = 0, total = 0;
         double bigShift = 0, smallShift = 0;
         for (int r = 0; r < replications; r++) {
-            double mu = 0.05, tau = 0.03;
-            double[] theta = new double[SE.length];
-            double[] y = new double[SE.length];
-            for (int j = 0; j < SE.length; j++) {
-                theta[j] = mu + tau * g.sample();
-                y[j] = theta[j] + SE[j] * g.sample();
-            }
-            Estimates data = new Estimates(names(), y, SE, "coverage", "");
-            Draws d = PooledEffectsPosterior.sample(data, priors(data), RunSettings.of(2, 300, 1000, 1000 + r).withThreads(1),
-                    Progress.NONE, new Cancellation());
+            Replication rep = replicate(0.05, 0.03, g, RunSettings.of(2, 300, 1000, 1000 + r));
+            Draws d = rep.draws();
+            double[] y = rep.y();
             double pooledMean = java.util.Arrays.stream(d.pooled("mu")).average().orElseThrow();
-            for (int j = 0; j < SE.length; j++) {
-                double[] draws = d.pooled("effect[c" + j + "]");
-                covered += theta[j] >= Quantiles.of(draws, 0.05) && theta[j] <= Quantiles.of(draws, 0.95) ? 1 : 0;
-                total++;
-            }
+            covered += covered(d, rep.theta());
+            total += SE.length;
             // Share of the way from the raw estimate to the pooled mean.
             double big = java.util.Arrays.stream(d.pooled("effect[c0]")).average().orElseThrow();
             double small = java.util.Arrays.stream(d.pooled("effect[c9]")).average().orElseThrow();
