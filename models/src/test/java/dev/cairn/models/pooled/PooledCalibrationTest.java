@@ -98,8 +98,9 @@ class PooledCalibrationTest {
 
     /**
      * Over data sets whose truth is drawn from the prior the fit uses, 90% intervals cover the truth 90% of the
-     * time (the calibration a Bayesian interval promises; at one fixed truth it may cover more or less, e.g.
-     * more when the prior's spread exceeds the truth's). The ten countries of a data set share mu and tau,
+     * time (the calibration a Bayesian interval promises, the basis of Cook, Gelman & Rubin 2006, "Validation
+     * of software for Bayesian models using posterior quantiles", JCGS; reference from memory; at one fixed
+     * truth it may cover more or less, e.g. more when the prior's spread exceeds the truth's). The ten countries of a data set share mu and tau,
      * so their hits are correlated: the tolerance takes a design effect of 2.
      */
     @Test
