@@ -142,30 +142,38 @@ public final class SegmentedPosterior {
 
     // ---- the model in terms of the centred quantities, computed from either parameterisation ----
 
+    /**
+     * A centred quantity from coordinate {@code raw}: as stored, or, non-centred, mean + exp(log scale) x raw
+     * (x[mean] the population mean, x[logScale] the log of its spread).
+     */
+    private static double centred(boolean nonCentred, double[] x, int mean, int logScale, int raw) {
+        return nonCentred ? x[mean] + Math.exp(x[logScale]) * x[raw] : x[raw];
+    }
+
     double alpha(double[] x, int j) {
-        return levelsNc ? x[at.alpha0] + Math.exp(x[at.tauAlpha]) * x[at.alpha + j] : x[at.alpha + j];
+        return centred(levelsNc, x, at.alpha0, at.tauAlpha, at.alpha + j);
     }
 
     double d(double[] x, int j, int k) {
         if (k == control) {
             return 0;
         }
-        return effectsNc ? x[at.bigD + k] + Math.exp(x[at.tauD]) * x[at.d(j, k)] : x[at.d(j, k)];
+        return centred(effectsNc, x, at.bigD + k, at.tauD, at.d(j, k));
     }
 
     double beta(double[] x, int j) {
-        return levelsNc ? x[at.beta0] + Math.exp(x[at.tauBeta]) * x[at.beta + j] : x[at.beta + j];
+        return centred(levelsNc, x, at.beta0, at.tauBeta, at.beta + j);
     }
 
     double e(double[] x, int j, int k) {
         if (k == control) {
             return 0;
         }
-        return effectsNc ? x[at.bigE + k] + Math.exp(x[at.tauE]) * x[at.e(j, k)] : x[at.e(j, k)];
+        return centred(effectsNc, x, at.bigE + k, at.tauE, at.e(j, k));
     }
 
     double logSigma(double[] x, int j) {
-        return levelsNc ? x[at.s0] + Math.exp(x[at.tauS]) * x[at.logSigma + j] : x[at.logSigma + j];
+        return centred(levelsNc, x, at.s0, at.tauS, at.logSigma + j);
     }
 
     /** log sigma of cell (j, k): the segment's log sigma plus the arm's shift G_k (G_control = 0). */
