@@ -38,10 +38,18 @@ public final class FitSupport {
 
     /** Diagnostics of every column of the draws (parameters and derived quantities). */
     public static DiagnosticsReport diagnose(Draws draws, Spec spec) {
-        List<double[][]> columns = new ArrayList<>();
-        for (String name : draws.names()) {
-            columns.add(draws.column(name));
-        }
+        // columns copied one at a time as the diagnostics reach them, not all at once
+        List<double[][]> columns = new java.util.AbstractList<>() {
+            @Override
+            public double[][] get(int i) {
+                return draws.column(draws.names().get(i));
+            }
+
+            @Override
+            public int size() {
+                return draws.names().size();
+            }
+        };
         return Diagnostics.of(draws.names(), columns, thresholds(spec.convergence()));
     }
 

@@ -10,6 +10,7 @@ public final class ChainState {
     private final Target target;
     private final double[] point;
     private double logDensity;
+    private boolean stale;
 
     ChainState(Target target, double[] start) {
         this.target = target;
@@ -35,18 +36,41 @@ public final class ChainState {
         return point;
     }
 
+    /**
+     * The target's log density at the current point (recomputed first if a step {@link #invalidate() left it
+     * stale}).
+     *
+     * @return the log density, -infinity outside the support
+     */
     public double logDensity() {
+        if (stale) {
+            refresh();
+        }
         return logDensity;
     }
 
-    /** Records the density of the point a step has just moved to. */
+    /**
+     * Records the density of the point a step has just moved to.
+     *
+     * @param newLogDensity the target's log density at the current point
+     */
     public void accept(double newLogDensity) {
         this.logDensity = newLogDensity;
+        this.stale = false;
     }
 
     /** Recomputes the density after a step that changed the point without evaluating it. */
     public void refresh() {
         this.logDensity = evaluate(target, point);
+        this.stale = false;
+    }
+
+    /**
+     * Marks the recorded density as out of date after a step that moved the point without knowing the target's
+     * density there; it is recomputed when next asked for, so steps that never ask cost nothing.
+     */
+    public void invalidate() {
+        this.stale = true;
     }
 
     /** Evaluates the target, mapping NaN to -infinity so a bad region is simply rejected. */

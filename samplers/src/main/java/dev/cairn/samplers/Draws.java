@@ -70,6 +70,38 @@ public final class Draws {
         return new Draws(names, values);
     }
 
+    /**
+     * Draws that take over the caller's arrays without copying them (for large derived draws); the caller
+     * must not change them afterwards. Same checks as {@link #of}.
+     *
+     * @param names  column names, unique
+     * @param values values[chain][column][iteration], handed over
+     * @return the draws
+     * @throws IllegalArgumentException when the shapes disagree
+     */
+    public static Draws handOver(List<String> names, double[][][] values) {
+        if (names.isEmpty() || values.length == 0) {
+            throw new IllegalArgumentException("draws need at least one column and one chain");
+        }
+        int n = values[0].length == 0 ? 0 : values[0][0].length;
+        for (int c = 0; c < values.length; c++) {
+            if (values[c].length != names.size()) {
+                throw new IllegalArgumentException("chain " + (c + 1) + " has " + values[c].length
+                        + " columns, expected " + names.size());
+            }
+            for (int j = 0; j < names.size(); j++) {
+                if (values[c][j].length != n) {
+                    throw new IllegalArgumentException("chain " + (c + 1) + " has " + values[c][j].length
+                            + " iterations of '" + names.get(j) + "', expected " + n);
+                }
+            }
+        }
+        if (n < 1) {
+            throw new IllegalArgumentException("draws need at least one iteration");
+        }
+        return new Draws(names, values);
+    }
+
     public List<String> names() {
         return names;
     }

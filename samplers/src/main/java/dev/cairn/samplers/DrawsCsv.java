@@ -45,22 +45,33 @@ public final class DrawsCsv {
             }
             sb.append('\n');
             out.write(sb.toString());
-            int k = draws.names().size();
-            for (int c = 0; c < draws.chains(); c++) {
-                for (int t = 0; t < draws.iterations(); t++) {
-                    sb.setLength(0);
-                    sb.append(c + 1).append(',').append(t + 1);
-                    for (int j = 0; j < k; j++) {
-                        sb.append(',').append(draws.value(c, j, t));
-                    }
-                    sb.append('\n');
-                    out.write(sb.toString());
+            // Rows are formatted in parallel batches (formatting doubles is the cost) and written in order, so
+            // the text is the same whatever the number of threads.
+            int rows = draws.chains() * draws.iterations();
+            int batch = Math.max(1, Math.min(256, 2_000_000 / Math.max(1, draws.names().size())));
+            for (int first = 0; first < rows; first += batch) {
+                int from = first, to = Math.min(rows, first + batch);
+                String[] text = java.util.stream.IntStream.range(from, to).parallel()
+                        .mapToObj(r -> row(draws, r / draws.iterations(), r % draws.iterations()))
+                        .toArray(String[]::new);
+                for (String line : text) {
+                    out.write(line);
                 }
             }
             out.flush();
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
+    }
+
+    private static String row(Draws draws, int chain, int iteration) {
+        int k = draws.names().size();
+        StringBuilder sb = new StringBuilder(24 * (k + 2));
+        sb.append(chain + 1).append(',').append(iteration + 1);
+        for (int j = 0; j < k; j++) {
+            sb.append(',').append(draws.value(chain, j, iteration));
+        }
+        return sb.append('\n').toString();
     }
 
     /**

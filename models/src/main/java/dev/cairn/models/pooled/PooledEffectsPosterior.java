@@ -1,5 +1,7 @@
 package dev.cairn.models.pooled;
 
+import dev.cairn.models.KnownVarianceHierarchy;
+import dev.cairn.models.NormalMean;
 import dev.cairn.models.data.Estimates;
 import dev.cairn.samplers.Cancellation;
 import dev.cairn.samplers.ChainRunner;
@@ -51,6 +53,7 @@ public final class PooledEffectsPosterior {
     private final double[] y;
     private final double[] s2;
     private final PooledPriors priors;
+    private final KnownVarianceHierarchy hierarchy;
 
     PooledEffectsPosterior(Estimates data, PooledPriors priors) {
         this.y = data.estimate();
@@ -59,6 +62,8 @@ public final class PooledEffectsPosterior {
             s2[j] = data.se()[j] * data.se()[j];
         }
         this.priors = priors;
+        double v0 = priors.muVariance();
+        this.hierarchy = KnownVarianceHierarchy.of(y, s2, Double.isFinite(v0) ? priors.muMean() : 0, v0);
     }
 
     public static String effect(String name) {
@@ -110,36 +115,13 @@ public final class PooledEffectsPosterior {
         if (lp == Double.NEGATIVE_INFINITY) {
             return lp;
         }
-        double[] m = muGivenTau(tau);
-        double muHat = m[0];
-        double v = m[1];
-        lp += 0.5 * Math.log(v);
-        for (int j = 0; j < y.length; j++) {
-            double total = s2[j] + tau * tau;
-            lp -= 0.5 * (Math.log(total) + (y[j] - muHat) * (y[j] - muHat) / total);
-        }
-        double v0 = priors.muVariance();
-        if (Double.isFinite(v0)) {
-            lp -= (muHat - priors.muMean()) * (muHat - priors.muMean()) / (2 * v0);
-        }
-        return lp;
+        return lp + hierarchy.logMarginal(tau);
     }
 
     /** {mu_hat, V}: the normal conditional of mu given tau and y. */
     double[] muGivenTau(double tau) {
-        double precision = 0;
-        double weighted = 0;
-        for (int j = 0; j < y.length; j++) {
-            double w = 1 / (s2[j] + tau * tau);
-            precision += w;
-            weighted += w * y[j];
-        }
-        double v0 = priors.muVariance();
-        if (Double.isFinite(v0)) {
-            precision += 1 / v0;
-            weighted += priors.muMean() / v0;
-        }
-        return new double[] {weighted / precision, 1 / precision};
+        NormalMean m = hierarchy.meanGivenTau(tau);
+        return new double[] {m.mean(), m.variance()};
     }
 
     /** Dispersed starts on the data's scale: effects near their estimates, tau around the largest se. */
@@ -196,11 +178,9 @@ public final class PooledEffectsPosterior {
                     double[] m = muGivenTau(tau);
                     double mu = m[0] + Math.sqrt(m[1]) * normal.sample(stream);
                     x[I_MU] = mu;
-                    double t2 = tau * tau;
                     for (int j = 0; j < y.length; j++) {
-                        double precision = 1 / s2[j] + 1 / t2;
-                        double mean = (y[j] / s2[j] + mu / t2) / precision;
-                        x[FIRST_EFFECT + j] = mean + normal.sample(stream) / Math.sqrt(precision);
+                        NormalMean effect = hierarchy.effectGiven(j, mu, tau);
+                        x[FIRST_EFFECT + j] = effect.mean() + normal.sample(stream) * Math.sqrt(effect.variance());
                     }
                     x[I_PREDICTIVE] = mu + tau * normal.sample(stream);
                     state.refresh();

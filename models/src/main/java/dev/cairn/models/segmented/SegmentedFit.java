@@ -4,7 +4,6 @@ import dev.cairn.diagnostics.DiagnosticsReport;
 import dev.cairn.models.FitOptions;
 import dev.cairn.models.FitOutcome;
 import dev.cairn.models.FitSupport;
-import dev.cairn.models.InputException;
 import dev.cairn.models.Version;
 import dev.cairn.models.data.ArmStats;
 import dev.cairn.models.data.SegmentedSpendData;
@@ -25,14 +24,10 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Locale;
 import java.util.Map;
 
 /** A segmented-spend fit: per-segment cells pooled hierarchically, with overall and per-segment decisions. */
 public final class SegmentedFit {
-    /** A segment with fewer payers than this (all arms together) carries little information. */
-    static final int SMALL_SEGMENT_PAYERS = 30;
-
     private SegmentedFit() {
     }
 
@@ -42,15 +37,10 @@ public final class SegmentedFit {
         List<String> arms = data.arms();
         List<String> segments = data.segments();
         String control = FitSupport.control(spec, arms, data.source());
-        if ("exact".equals(spec.samplerOrDefault().method())) {
-            throw new InputException("/sampler/method: segmented-spend has no closed-form posterior; use 'auto'");
-        }
-        String[] choice = parameterisation(spec.parameterisation(), data, segments);
-        boolean levelsNc = choice[0].equals("non-centred");
-        boolean effectsNc = !"centred".equals(spec.parameterisation());
-        SegmentedPosterior model = new SegmentedPosterior(data, control, levelsNc, effectsNc);
+        String method = SegmentedPosterior.method(spec.samplerOrDefault().method());
+        SegmentedPosterior model = new SegmentedPosterior(data, control, spec.parameterisation());
         RunSettings settings = FitSupport.runSettings(spec, options, false);
-        Draws internal = model.sample(settings, options.progress(), options.cancellation());
+        Draws internal = model.sample(method, settings, options.progress(), options.cancellation());
 
         long total = 0;
         double[] weights = new double[segments.size()];
@@ -64,7 +54,7 @@ public final class SegmentedFit {
         for (int j = 0; j < weights.length; j++) {
             weights[j] /= total;
         }
-        Draws draws = SegmentedOutputs.of(internal, model, segments, arms, weights);
+        Draws draws = model.outputs(internal, weights);
         DiagnosticsReport report = FitSupport.diagnose(draws, spec);
         double level = spec.interval();
         List<String> metrics = data.hasSpend() ? List.of("arpu", "payerRate", "arppu") : List.of("payerRate");
@@ -106,8 +96,7 @@ public final class SegmentedFit {
             perSegment.put(seg, new SegmentSummary(users, cells, segComparisons, notes.isEmpty() ? null : notes));
         }
         if (!report.converged()) {
-            warnings.add(0, FitSupport.notConverged(report)
-                    + (levelsNc ? "" : " If many segments are small, try \"parameterisation\": \"non-centred\"."));
+            warnings.add(0, FitSupport.notConverged(report));
         }
         Map<String, Map<String, Double>> probBest = new LinkedHashMap<>();
         for (String metric : metrics) {
@@ -118,37 +107,13 @@ public final class SegmentedFit {
         Result result = new Result("segmented-spend", spec.title(), report.converged(), control, level,
                 new DataInfo(data.source(), spec.data().layout(), data.rows(), total, data.query()), overall,
                 comparisons, perSegment, probBest, List.of(), DiagnosticsSummary.of(report),
-                new Run("metropolis-within-gibbs", settings.chains(), settings.warmup(), settings.draws(),
+                new Run(method, settings.chains(), settings.warmup(), settings.draws(),
                         settings.thin(), settings.seed(), seconds, Version.get(),
-                        "segment levels " + choice[0] + ", arm effects " + (effectsNc ? "non-centred" : "centred")
-                                + " (" + choice[1] + ")"),
-                Map.of("hyperpriors", "documented in SegmentedPosterior: alpha0 ~ N(-3, 2^2); D, E ~ N(0, 1); "
+                        model.layout.describe(spec.parameterisation())),
+                Map.of("hyperpriors", "documented in SegmentedDensity: alpha0 ~ N(-3, 2^2); D, E ~ N(0, 1); "
                         + "beta0 ~ N(0, 5^2); s0 ~ N(0, 1); tauAlpha, tauBeta ~ half-N(1); tauD, tauE, tauS ~ half-N(0.5)"),
                 warnings, Result.CAUTIONS);
         return new FitOutcome(result, draws);
-    }
-
-    /**
-     * {choice for the segment levels, reason}: non-centred when more than half of the segments have few
-     * payers. Arm effects are non-centred unless the spec asks for "centred": effects of one arm usually
-     * differ little between segments, and a small between-segment sd is the funnel non-centring removes.
-     */
-    static String[] parameterisation(String requested, SegmentedSpendData data, List<String> segments) {
-        if (requested != null && !requested.equals("auto")) {
-            return new String[] {requested, "as the spec asks"};
-        }
-        int small = 0;
-        for (String seg : segments) {
-            long payers = 0;
-            for (String a : data.arms()) {
-                ArmStats c = data.cell(seg, a);
-                payers += c == null ? 0 : c.payers();
-            }
-            small += payers < SMALL_SEGMENT_PAYERS ? 1 : 0;
-        }
-        String reason = String.format(Locale.ROOT, "%d of %d segments have fewer than %d payers", small,
-                segments.size(), SMALL_SEGMENT_PAYERS);
-        return new String[] {2 * small > segments.size() ? "non-centred" : "centred", "auto: " + reason};
     }
 
     private static ArmSummary summary(Draws draws, String scope, String arm, long users, long payers,

@@ -5,8 +5,8 @@ import java.util.ArrayList;
 import java.util.List;
 
 /**
- * The named quantities of a segmented-spend fit, computed draw by draw from the internal coordinates
- * (so they are the same whichever parameterisation ran):
+ * The named quantities of a segmented-spend fit, computed draw by draw from the coordinates (so they are the
+ * same whichever parameterisation ran):
  * <ul>
  *   <li>hyperparameters: alpha0, D[arm], tauAlpha, tauD; with spend beta0, E[arm], G[arm], s0, tauBeta, tauE,
  *       tauS;</li>
@@ -29,25 +29,18 @@ final class SegmentedOutputs {
         return quantity + "[" + segment + "/" + arm + "]";
     }
 
-    static Draws of(Draws internal, SegmentedPosterior model, List<String> segments, List<String> arms, double[] weights) {
-        SegmentedPosterior.Layout at = model.at;
-        List<String> names = new ArrayList<>();
-        names.add("alpha0");
-        names.add("tauAlpha");
-        names.add("tauD");
+    static List<String> names(SegmentedCells cells) {
+        List<String> arms = cells.arms;
+        List<String> names = new ArrayList<>(List.of("alpha0", "tauAlpha", "tauD"));
         for (int k = 0; k < arms.size(); k++) {
-            if (k != model.control) {
+            if (k != cells.control) {
                 names.add("D[" + arms.get(k) + "]");
             }
         }
-        if (model.spend) {
-            names.add("beta0");
-            names.add("s0");
-            names.add("tauBeta");
-            names.add("tauE");
-            names.add("tauS");
+        if (cells.spend) {
+            names.addAll(List.of("beta0", "s0", "tauBeta", "tauE", "tauS"));
             for (int k = 0; k < arms.size(); k++) {
-                if (k != model.control) {
+                if (k != cells.control) {
                     names.add("E[" + arms.get(k) + "]");
                     names.add("G[" + arms.get(k) + "]");
                 }
@@ -56,109 +49,116 @@ final class SegmentedOutputs {
         for (String scope : new String[] {TYPICAL, POPULATION}) {
             for (String a : arms) {
                 names.add(cell("payerRate", scope, a));
-                if (model.spend) {
+                if (cells.spend) {
                     names.add(cell("arppu", scope, a));
                     names.add(cell("arpu", scope, a));
                 }
             }
         }
-        for (String s : segments) {
-            if (model.spend) {
+        for (String s : cells.segments) {
+            if (cells.spend) {
                 names.add("logSpendSd[" + s + "]");
             }
             for (String a : arms) {
                 names.add(cell("payerRate", s, a));
-                if (model.spend) {
+                if (cells.spend) {
                     names.add(cell("logSpendMean", s, a));
                     names.add(cell("arppu", s, a));
                     names.add(cell("arpu", s, a));
                 }
             }
         }
-        int chains = internal.chains();
-        int iterations = internal.iterations();
+        return names;
+    }
+
+    static Draws of(Draws internal, SegmentedCells cells, SegmentedLayout layout, double[] weights) {
+        List<String> names = names(cells);
+        int segs = cells.segmentCount(), arms = cells.armCount(), control = cells.control;
+        int chains = internal.chains(), iterations = internal.iterations(), size = layout.size();
         double[][][] out = new double[chains][names.size()][iterations];
-        double[] x = new double[at.size];
-        double[][] internalColumns = new double[at.size][];
-        for (int c = 0; c < chains; c++) {
-            for (int i = 0; i < at.size; i++) {
-                internalColumns[i] = internal.column("x" + i)[c];
-            }
+        HierarchicalCells payer = layout.payer, mean = layout.mean, spread = layout.spread;
+        double[][][] columns = new double[size][][];
+        for (int i = 0; i < size; i++) {
+            columns[i] = internal.column(layout.parameters.name(i));
+        }
+        // chains in parallel: each writes only its own slice, so the result does not depend on the threads
+        java.util.stream.IntStream.range(0, chains).parallel().forEach(c -> {
+            double[] x = new double[size];
+            double[] eta = new double[segs * arms], mu = new double[segs * arms], logSigma = new double[segs * arms];
             for (int t = 0; t < iterations; t++) {
-                for (int i = 0; i < at.size; i++) {
-                    x[i] = internalColumns[i][t];
+                for (int i = 0; i < size; i++) {
+                    x[i] = columns[i][c][t];
                 }
+                double[][] o = out[c];
                 int col = 0;
-                out[c][col++][t] = x[at.alpha0];
-                out[c][col++][t] = Math.exp(x[at.tauAlpha]);
-                out[c][col++][t] = Math.exp(x[at.tauD]);
-                for (int k = 0; k < arms.size(); k++) {
-                    if (k != model.control) {
-                        out[c][col++][t] = x[at.bigD + k];
+                o[col++][t] = x[payer.levelMean];
+                o[col++][t] = Math.exp(x[payer.logTauLevel]);
+                o[col++][t] = Math.exp(x[payer.logTauEffect]);
+                for (int k = 0; k < arms; k++) {
+                    if (k != control) {
+                        o[col++][t] = x[payer.armMean[k]];
                     }
                 }
-                if (model.spend) {
-                    out[c][col++][t] = x[at.beta0];
-                    out[c][col++][t] = x[at.s0];
-                    out[c][col++][t] = Math.exp(x[at.tauBeta]);
-                    out[c][col++][t] = Math.exp(x[at.tauE]);
-                    out[c][col++][t] = Math.exp(x[at.tauS]);
-                    for (int k = 0; k < arms.size(); k++) {
-                        if (k != model.control) {
-                            out[c][col++][t] = x[at.bigE + k];
-                            out[c][col++][t] = x[at.bigG + k];
+                if (cells.spend) {
+                    o[col++][t] = x[mean.levelMean];
+                    o[col++][t] = x[spread.levelMean];
+                    o[col++][t] = Math.exp(x[mean.logTauLevel]);
+                    o[col++][t] = Math.exp(x[mean.logTauEffect]);
+                    o[col++][t] = Math.exp(x[spread.logTauLevel]);
+                    for (int k = 0; k < arms; k++) {
+                        if (k != control) {
+                            o[col++][t] = x[mean.armMean[k]];
+                            o[col++][t] = x[spread.armMean[k]];
                         }
                     }
                 }
-                // typical segment
-                for (int k = 0; k < arms.size(); k++) {
-                    double dk = k == model.control ? 0 : x[at.bigD + k];
-                    double p = logistic(x[at.alpha0] + dk);
-                    out[c][col++][t] = p;
-                    if (model.spend) {
-                        double ek = k == model.control ? 0 : x[at.bigE + k];
-                        double gk = k == model.control ? 0 : x[at.bigG + k];
-                        double arppu = Math.exp(x[at.beta0] + ek + 0.5 * Math.exp(2 * (x[at.s0] + gk)));
-                        out[c][col++][t] = arppu;
-                        out[c][col++][t] = p * arppu;
+                for (int k = 0; k < arms; k++) {
+                    double p = logistic(x[payer.levelMean] + (k == control ? 0 : x[payer.armMean[k]]));
+                    o[col++][t] = p;
+                    if (cells.spend) {
+                        double e = k == control ? 0 : x[mean.armMean[k]];
+                        double g = k == control ? 0 : x[spread.armMean[k]];
+                        double arppu = Math.exp(x[mean.levelMean] + e + 0.5 * Math.exp(2 * (x[spread.levelMean] + g)));
+                        o[col++][t] = arppu;
+                        o[col++][t] = p * arppu;
                     }
                 }
-                // population: filled after the cells, remember where it starts
                 int population = col;
-                col += arms.size() * (model.spend ? 3 : 1);
-                double[] popRate = new double[arms.size()];
-                double[] popArpu = new double[arms.size()];
-                for (int j = 0; j < segments.size(); j++) {
-                    double ls = model.spend ? model.logSigma(x, j) : 0;
-                    if (model.spend) {
-                        out[c][col++][t] = Math.exp(ls);
+                col += arms * (cells.spend ? 3 : 1);
+                payer.values(x, eta);
+                if (cells.spend) {
+                    mean.values(x, mu);
+                    spread.values(x, logSigma);
+                }
+                double[] popRate = new double[arms], popArpu = new double[arms];
+                for (int j = 0; j < segs; j++) {
+                    if (cells.spend) {
+                        o[col++][t] = Math.exp(logSigma[j * arms + control]);
                     }
-                    double a = model.alpha(x, j);
-                    double b = model.spend ? model.beta(x, j) : 0;
-                    for (int k = 0; k < arms.size(); k++) {
-                        double p = logistic(a + model.d(x, j, k));
-                        out[c][col++][t] = p;
+                    for (int k = 0; k < arms; k++) {
+                        int cell = j * arms + k;
+                        double p = logistic(eta[cell]);
+                        o[col++][t] = p;
                         popRate[k] += weights[j] * p;
-                        if (model.spend) {
-                            double mu = b + model.e(x, j, k);
-                            double arppu = Math.exp(mu + 0.5 * Math.exp(2 * model.logSigmaCell(x, j, k)));
-                            out[c][col++][t] = mu;
-                            out[c][col++][t] = arppu;
-                            out[c][col++][t] = p * arppu;
+                        if (cells.spend) {
+                            double arppu = Math.exp(mu[cell] + 0.5 * Math.exp(2 * logSigma[cell]));
+                            o[col++][t] = mu[cell];
+                            o[col++][t] = arppu;
+                            o[col++][t] = p * arppu;
                             popArpu[k] += weights[j] * p * arppu;
                         }
                     }
                 }
-                for (int k = 0; k < arms.size(); k++) {
-                    out[c][population++][t] = popRate[k];
-                    if (model.spend) {
-                        out[c][population++][t] = popArpu[k] / popRate[k];
-                        out[c][population++][t] = popArpu[k];
+                for (int k = 0; k < arms; k++) {
+                    o[population++][t] = popRate[k];
+                    if (cells.spend) {
+                        o[population++][t] = popArpu[k] / popRate[k];
+                        o[population++][t] = popArpu[k];
                     }
                 }
             }
-        }
-        return Draws.of(names, out);
+        });
+        return Draws.handOver(names, out);
     }
 
     static double logistic(double z) {

@@ -59,7 +59,9 @@ class SegmentedFitTest {
     void aFunnelOfTinySegmentsConvergesNonCentredAndIsFlaggedWhenItDoesNot() throws IOException {
         users(30, 25, 12);
         Result ok = fit("{\"seed\": 4}", "");
-        assertTrue(ok.run().parameterisation().startsWith("segment levels non-centred"), ok.run().parameterisation());
+        assertTrue(ok.run().parameterisation().startsWith("payer-rate levels centred in 0 of 30 segments"),
+                ok.run().parameterisation());
+        assertEquals("nuts", ok.run().method());
         assertTrue(ok.converged(), ok.diagnostics().reasons().toString());
         Result tooShort = fit("{\"seed\": 4, \"warmup\": 10, \"draws\": 20}", "");
         assertFalse(tooShort.converged());

@@ -27,7 +27,7 @@ class SegmentedTest {
     private static final boolean FULL = "full".equals(System.getProperty("cairn.validation"));
 
     /** Cells simulated user by user from given cell parameters; arms "A" (control) and "B". */
-    static SegmentedSpendData simulate(double[][] payerRate, double[][] logMean, double[] logSd, int[] users,
+    static SegmentedSpendData simulate(double[][] payerRate, double[][] logMean, double[][] logSd, int[] users,
                                        UniformRandomProvider rng) {
         ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
         List<SegmentedSpendData.Cell> cells = new ArrayList<>();
@@ -38,7 +38,7 @@ class SegmentedTest {
                 double s1 = 0, s2 = 0;
                 for (int u = 0; u < users[j]; u++) {
                     if (rng.nextDouble() < payerRate[j][k]) {
-                        double y = logMean[j][k] + logSd[j] * g.sample();
+                        double y = logMean[j][k] + logSd[j][k] * g.sample();
                         m++;
                         s1 += y;
                         s2 += y * y;
@@ -65,7 +65,7 @@ class SegmentedTest {
         for (int r = 0; r < replications; r++) {
             int jn = users.length;
             double[][] p = new double[jn][2], mu = new double[jn][2];
-            double[] sd = new double[jn];
+            double[][] sd = new double[jn][2];
             for (int j = 0; j < jn; j++) {
                 double alpha = -3.2 + 0.4 * g.sample(), d = 0.15 + 0.05 * g.sample();
                 double beta = 1.5 + 0.3 * g.sample(), e = 0.05 + 0.05 * g.sample();
@@ -73,14 +73,16 @@ class SegmentedTest {
                 p[j][1] = logistic(alpha + d);
                 mu[j][0] = beta;
                 mu[j][1] = beta + e;
-                sd[j] = Math.exp(0.1 + 0.1 * g.sample());
+                sd[j][0] = Math.exp(0.1 + 0.1 * g.sample());
+                sd[j][1] = sd[j][0];
             }
             SegmentedSpendData data = simulate(p, mu, sd, users, rng);
-            SegmentedPosterior model = new SegmentedPosterior(data, "A", false, true);
-            Draws internal = model.sample(RunSettings.of(2, 500, 1000, 900 + r).withThreads(1), Progress.NONE, new Cancellation());
+            SegmentedPosterior model = new SegmentedPosterior(data, "A", "auto");
+            Draws internal = model.sample("nuts", RunSettings.of(2, 500, 1000, 900 + r).withThreads(1), Progress.NONE,
+                    new Cancellation());
             double[] weights = new double[jn];
             java.util.Arrays.fill(weights, 1.0 / jn);
-            Draws d = SegmentedOutputs.of(internal, model, data.segments(), data.arms(), weights);
+            Draws d = model.outputs(internal, weights);
             for (int j = 0; j < jn; j++) {
                 String seg = data.segments().get(j);
                 for (int k = 0; k < 2; k++) {
@@ -138,18 +140,21 @@ class SegmentedTest {
         int[] users = {400, 400, 400, 400};
         Sbc sbc = new Sbc();
         for (int r = 0; r < replications; r++) {
-            double alpha0 = SegmentedPosterior.ALPHA0_MEAN + SegmentedPosterior.ALPHA0_SD * g.sample();
-            double bigD = SegmentedPosterior.EFFECT_SD * g.sample();
-            double beta0 = SegmentedPosterior.BETA0_SD * g.sample();
-            double bigE = SegmentedPosterior.EFFECT_SD * g.sample();
-            double s0 = SegmentedPosterior.S0_SD * g.sample();
-            double tA = Math.abs(SegmentedPosterior.TAU_LEVEL_SD * g.sample());
-            double tD = Math.abs(SegmentedPosterior.TAU_EFFECT_SD * g.sample());
-            double tB = Math.abs(SegmentedPosterior.TAU_LEVEL_SD * g.sample());
-            double tE = Math.abs(SegmentedPosterior.TAU_EFFECT_SD * g.sample());
-            double tS = Math.abs(SegmentedPosterior.TAU_EFFECT_SD * g.sample());
+            HierarchicalCells.Prior payer = SegmentedLayout.PAYER, mean = SegmentedLayout.MEAN;
+            HierarchicalCells.Prior spread = SegmentedLayout.SPREAD;
+            double alpha0 = payer.mean() + payer.meanSd() * g.sample();
+            double bigD = payer.armMeanSd() * g.sample();
+            double beta0 = mean.mean() + mean.meanSd() * g.sample();
+            double bigE = mean.armMeanSd() * g.sample();
+            double s0 = spread.mean() + spread.meanSd() * g.sample();
+            double bigG = spread.armMeanSd() * g.sample();
+            double tA = Math.abs(payer.levelScale() * g.sample());
+            double tD = Math.abs(payer.effectScale() * g.sample());
+            double tB = Math.abs(mean.levelScale() * g.sample());
+            double tE = Math.abs(mean.effectScale() * g.sample());
+            double tS = Math.abs(spread.levelScale() * g.sample());
             double[][] p = new double[4][2], mu = new double[4][2];
-            double[] sd = new double[4];
+            double[][] sd = new double[4][2];
             for (int j = 0; j < 4; j++) {
                 double alpha = alpha0 + tA * g.sample(), d = bigD + tD * g.sample();
                 double beta = beta0 + tB * g.sample(), e = bigE + tE * g.sample();
@@ -157,18 +162,22 @@ class SegmentedTest {
                 p[j][1] = logistic(alpha + d);
                 mu[j][0] = beta;
                 mu[j][1] = beta + e;
-                sd[j] = Math.exp(s0 + tS * g.sample());
+                double logSd = s0 + tS * g.sample();
+                sd[j][0] = Math.exp(logSd);
+                sd[j][1] = Math.exp(logSd + bigG);
             }
             SegmentedSpendData data = simulate(p, mu, sd, users, rng);
-            SegmentedPosterior model = new SegmentedPosterior(data, "A", false, true);
-            Draws internal = model.sample(RunSettings.of(2, 300, 495, 4000 + r).withThreads(1), Progress.NONE,
+            SegmentedPosterior model = new SegmentedPosterior(data, "A", "auto");
+            Draws internal = model.sample("nuts", RunSettings.of(2, 300, 495, 4000 + r).withThreads(1), Progress.NONE,
                     new Cancellation());
             double[] w = {0.25, 0.25, 0.25, 0.25};
-            Draws d = SegmentedOutputs.of(internal, model, data.segments(), data.arms(), w);
+            Draws d = model.outputs(internal, w);
             sbc.add("alpha0", alpha0, Sbc.thin(d.pooled("alpha0"), 99));
             sbc.add("D[B]", bigD, Sbc.thin(d.pooled("D[B]"), 99));
             sbc.add("beta0", beta0, Sbc.thin(d.pooled("beta0"), 99));
             sbc.add("E[B]", bigE, Sbc.thin(d.pooled("E[B]"), 99));
+            sbc.add("G[B]", bigG, Sbc.thin(d.pooled("G[B]"), 99));
+            sbc.add("tauAlpha", tA, Sbc.thin(d.pooled("tauAlpha"), 99));
         }
         for (Map.Entry<String, Sbc.RankHistogram> e : sbc.histograms(10).entrySet()) {
             assertTrue(e.getValue().uniformAt(0.001), e.getKey() + ": p = " + e.getValue().pValue() + ", counts "
