@@ -24,18 +24,47 @@ public final class Diagnostics {
     private Diagnostics() {
     }
 
-    /** Diagnostics of one parameter's draws laid out as chains[m][n]. */
+    /**
+     * Diagnostics of one parameter's draws laid out as chains[m][n]. Draws that are not finite (an overflow
+     * in a derived quantity, a sampler that failed) leave every diagnostic undefined, and the note says
+     * where they are.
+     *
+     * @param name   the parameter's name
+     * @param chains draws[chain][iteration] (not modified)
+     * @return the diagnostics
+     * @throws IllegalArgumentException when the chains are empty or of unequal lengths
+     */
     public static ParameterDiagnostics of(String name, double[][] chains) {
-        Chains.check(chains);
+        Chains.checkLayout(chains);
         int m = chains.length;
         int n = chains[0].length;
+        String nonFinite = Chains.nonFinite(chains);
+        if (nonFinite != null) {
+            double nan = Double.NaN;
+            return new ParameterDiagnostics(name, m, n, nan, nan, nan, nan, nan, nan, nan, nan, nan, nan,
+                    nonFinite + ", so R-hat and ESS are undefined");
+        }
         double[] all = Chains.pool(chains);
         double mean = Autocovariance.mean(all);
         double sd = Math.sqrt(Ess.variance(all));
         double nan = Double.NaN;
-        if (Chains.constant(chains)) {
-            return new ParameterDiagnostics(name, m, n, mean, 0, all[0], nan, nan, nan, nan, nan, nan, 0,
-                    "constant: every draw is " + all[0] + ", so R-hat and ESS are undefined");
+        // Flat chains: variation within every chain is rounding (a scale-relative tolerance), so ranks and
+        // autocorrelations would measure noise. The reference implementation returns such noise as numbers
+        // (R-hat around 1e14 for stuck chains); here they are named for what they are.
+        double tolerance = Chains.tolerance(chains);
+        int flatChains = 0;
+        for (double[] chain : chains) {
+            flatChains += Chains.flat(chain, tolerance) ? 1 : 0;
+        }
+        if (flatChains == m) {
+            if (Chains.flat(all, tolerance)) {
+                return new ParameterDiagnostics(name, m, n, mean, 0, all[0], nan, nan, nan, nan, nan, nan, 0,
+                        "constant: every draw is " + all[0] + (tolerance > 0 ? " (to rounding)" : "")
+                                + ", so R-hat and ESS are undefined");
+            }
+            double inf = Double.POSITIVE_INFINITY;
+            return new ParameterDiagnostics(name, m, n, mean, sd, Quantiles.of(all, 0.5), inf, inf, inf, nan, nan,
+                    nan, nan, "chains are stuck: each chain keeps one value, and the chains' values differ");
         }
         if (n < 4) {
             double median = Quantiles.of(all, 0.5);
@@ -55,28 +84,42 @@ public final class Diagnostics {
         double splitMedian = Quantiles.ofSorted(splitSorted, 0.5);
         // With an even chain length the split draws are all the draws; otherwise the middle ones are left out.
         double median = n % 2 == 0 ? splitMedian : Quantiles.of(all, 0.5);
+        // Folding and the tail quantiles use all draws (as the reference does), which for an odd chain length
+        // include the middle draws the split leaves out.
         double[] folded = new double[pooled.length];
         for (int i = 0; i < folded.length; i++) {
-            folded[i] = Math.abs(pooled[i] - splitMedian);
+            folded[i] = Math.abs(pooled[i] - median);
         }
         double rhatFolded = Rhat.basic(RankNormal.of(split.with(folded),
-                Ranking.foldedOrder(pooled, order, splitMedian)));
+                Ranking.foldedOrder(pooled, order, median)));
         double rhat = Double.isNaN(rhatBulk) || Double.isNaN(rhatFolded)
                 ? (Double.isNaN(rhatBulk) ? rhatFolded : rhatBulk)
                 : Math.max(rhatBulk, rhatFolded);
 
         double essBulk = Ess.of(z);
         // Tail-ESS: indicators of the 5% and 95% quantiles (reusing the folded buffer).
-        double essTail = Math.min(
-                indicatorEss(split, Quantiles.ofSorted(splitSorted, 0.05), folded),
-                indicatorEss(split, Quantiles.ofSorted(splitSorted, 0.95), folded));
+        boolean even = n % 2 == 0;
+        double q05 = even ? Quantiles.ofSorted(splitSorted, 0.05) : Quantiles.of(all, 0.05);
+        double q95 = even ? Quantiles.ofSorted(splitSorted, 0.95) : Quantiles.of(all, 0.95);
+        double essTail = Math.min(indicatorEss(split, q05, folded), indicatorEss(split, q95, folded));
         double essMean = Ess.of(split);
         double mcseMean = sd / Math.sqrt(essMean);
 
-        String note = m == 1 ? "one chain: R-hat compares its two halves only" : "";
-        if (Double.isInfinite(rhat)) {
-            note = "chains are stuck: no variation within chains, different values between them";
+        List<String> notes = new ArrayList<>();
+        if (m == 1) {
+            notes.add("one chain: R-hat compares its two halves only");
         }
+        if (flatChains > 0) {
+            notes.add(flatChains + " of " + m + " chains are stuck at one value");
+        }
+        if (Double.isNaN(rhatFolded)) {
+            notes.add("the folded draws |x - median| are constant, so R-hat is the bulk R-hat alone");
+        }
+        if (Double.isNaN(essTail)) {
+            notes.add("the 5% or 95% quantile indicator is constant (a discrete parameter at its edge), so tail-ESS"
+                    + " is undefined");
+        }
+        String note = String.join("; ", notes);
         return new ParameterDiagnostics(name, m, n, mean, sd, median, rhat, rhatBulk, rhatFolded,
                 essBulk, essTail, essMean, mcseMean, note);
     }

@@ -47,8 +47,8 @@ public record DiagnosticsReport(List<ParameterDiagnostics> parameters, Threshold
             if (p.essTail() == p.essTail() && p.essTail() < need) {
                 reasons.add(String.format(Locale.ROOT, "tail-ESS of %s is %.0f (needs >= %.0f)", p.name(), p.essTail(), need));
             }
-            if (!p.defined() && p.sd() > 0) {
-                reasons.add(p.name() + ": diagnostics undefined (" + p.note() + ")");
+            if (!p.defined() && !(p.sd() == 0)) {
+                reasons.add(undefined(p));
             }
         }
         if (parameters.isEmpty()) {
@@ -56,6 +56,24 @@ public record DiagnosticsReport(List<ParameterDiagnostics> parameters, Threshold
         }
         return new DiagnosticsReport(parameters, thresholds, maxRhat, minBulk, minTail, reasons.isEmpty(),
                 reasons, notes);
+    }
+
+    /** "R-hat and tail-ESS of x are undefined: why", naming the diagnostics that are missing. */
+    private static String undefined(ParameterDiagnostics p) {
+        List<String> which = new ArrayList<>();
+        if (Double.isNaN(p.rhat())) {
+            which.add("R-hat");
+        }
+        if (Double.isNaN(p.essBulk())) {
+            which.add("bulk-ESS");
+        }
+        if (Double.isNaN(p.essTail())) {
+            which.add("tail-ESS");
+        }
+        String list = which.size() == 1 ? which.get(0)
+                : String.join(", ", which.subList(0, which.size() - 1)) + " and " + which.get(which.size() - 1);
+        return list + " of " + p.name() + (which.size() == 1 ? " is" : " are") + " undefined"
+                + (p.note().isEmpty() ? "" : ": " + p.note());
     }
 
     private static String format(double v) {

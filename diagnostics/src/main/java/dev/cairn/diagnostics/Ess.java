@@ -13,7 +13,8 @@ package dev.cairn.diagnostics;
  *   tau    = -1 + 2 sum_{t<=2K+1} rho_t (+ a last positive even term), at least 1/log10(MN)
  *   ESS    = M N / tau
  * </pre>
- * The floor on tau caps ESS at M N log10(M N) for antithetic chains.
+ * The floor on tau caps ESS at M N log10(M N) for antithetic chains; when even the first pair sums to <= 0,
+ * rho_0 is counted once (tau = 2, ESS = MN/2), as the reference implementation does.
  */
 public final class Ess {
     /** Lags summed directly before the FFT is used: enough for independent draws nearly always. */
@@ -102,6 +103,13 @@ public final class Ess {
         double sum = 0;
         for (t = 0; t < maxT; t++) {
             sum += rho[t];
+        }
+        // When the first pair already sums to <= 0 (antithetic chains, lag-1 autocorrelation near -1), the
+        // reference implementation (R package posterior 1.4.0, ess_rfun: sum(rho_hat_t[1:max_t]) with max_t = 0
+        // sums the first element) and Stan count rho_0 once, so tau = 2 and ESS = MN/2; follow it rather than
+        // report MN log10(MN) for a pathological sampler.
+        if (maxT == 0) {
+            sum = rho[0];
         }
         double tau = -1 + 2 * sum + rho[maxT];
         tau = Math.max(tau, 1 / Math.log10(total));

@@ -1,0 +1,57 @@
+package dev.cairn.bench;
+
+import dev.cairn.models.Cairn;
+import dev.cairn.models.FitOptions;
+import dev.cairn.models.FitOutcome;
+import dev.cairn.models.demo.StudioScaleScenario;
+import dev.cairn.models.result.Result;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.Locale;
+
+/**
+ * segmented-spend at a studio's sizes: 10, 50, 200 and 500 segments x 3 and 5 arms of the invented
+ * {@link StudioScaleScenario} (summary tables, cell sizes spread log-normally from 50 to 500,000 users,
+ * small cells with 0-2 payers), fitted in this process with default settings (4 chains x 1,000 warmup +
+ * 1,000 draws, NUTS). Prints wall time, convergence, min bulk- and tail-ESS, min bulk-ESS per second, and
+ * seconds per effective draw per cell (flat when the cost of an effective draw grows linearly in cells).
+ * The first configuration is run twice and the first run dropped (JIT warm-up).
+ * Run: {@code java -cp bench/target/benchmarks.jar dev.cairn.bench.SegmentedScaling [DIR] [SEGMENTS...]}
+ */
+public final class SegmentedScaling {
+    private SegmentedScaling() {
+    }
+
+    public static void main(String[] args) throws Exception {
+        Path dir = Path.of(args.length > 0 ? args[0] : "bench-data");
+        Files.createDirectories(dir);
+        int[] sizes = args.length > 1 ? java.util.Arrays.stream(args, 1, args.length).mapToInt(Integer::parseInt).toArray()
+                : new int[] {10, 50, 200, 500};
+        System.out.println("segments,arms,cells,seconds,converged,maxRhat,minEssBulk,minEssTail,essPerSecond,"
+                + "microsecondsPerEffectiveDrawPerCell,parameterisation");
+        boolean warm = false;
+        for (int segments : sizes) {
+            for (int arms : new int[] {3, 5}) {
+                String name = "studio-" + segments + "x" + arms;
+                StudioScaleScenario.write(dir.resolve(name + ".csv"), segments, arms, 1);
+                Path spec = dir.resolve(name + ".json");
+                Files.writeString(spec, """
+                        {"model": "segmented-spend", "data": {"path": "%s.csv", "layout": "summary"}, "control": "A"}
+                        """.formatted(name));
+                if (!warm) {
+                    Cairn.fit(spec, FitOptions.DEFAULT);
+                    warm = true;
+                }
+                long t0 = System.nanoTime();
+                FitOutcome out = Cairn.fit(spec, FitOptions.DEFAULT);
+                double seconds = (System.nanoTime() - t0) / 1e9;
+                Result r = (Result) out.result();
+                int cells = segments * arms;
+                double ess = r.diagnostics().minEssBulk();
+                System.out.printf(Locale.ROOT, "%d,%d,%d,%.2f,%s,%.4f,%.0f,%.0f,%.1f,%.3f,\"%s\"%n", segments, arms, cells,
+                        seconds, r.converged(), r.diagnostics().maxRhat(), ess, r.diagnostics().minEssTail(), ess / seconds,
+                        1e6 * seconds / ess / cells, r.run().parameterisation());
+            }
+        }
+    }
+}
