@@ -26,10 +26,34 @@ import org.apache.commons.rng.UniformRandomProvider;
 final class HyperStep implements Step {
     private final HierarchicalCells s;
     private final HierarchicalCells.Prior prior;
+    private final CellLikelihood likelihood;
+    private final double[] effectNoise;
 
-    HyperStep(HierarchicalCells structure, HierarchicalCells.Prior prior) {
+    /**
+     * @param structure   the structure whose hyperparameters move
+     * @param prior       its hyperpriors
+     * @param likelihood  the log likelihood of one cell as a function of its value (for the partially centred
+     *                    move of the effect scale; null: no such move)
+     * @param effectNoise per segment, the variance of its raw arm-effect estimates (which segments the data
+     *                    pin)
+     */
+    HyperStep(HierarchicalCells structure, HierarchicalCells.Prior prior, CellLikelihood likelihood,
+              double[] effectNoise) {
         this.s = structure;
         this.prior = prior;
+        this.likelihood = likelihood;
+        this.effectNoise = effectNoise;
+    }
+
+    /** The log likelihood of cell (j * arms + k) at a value of the structure's cell value, others held. */
+    interface CellLikelihood {
+        /**
+         * @param x     the current point (not modified)
+         * @param cell  segment-major cell index
+         * @param value the cell's value (payer-rate logit, or mean log spend)
+         * @return the cell's log likelihood, constants dropped
+         */
+        double at(double[] x, int cell, double value);
     }
 
     @Override
@@ -42,6 +66,10 @@ final class HyperStep implements Step {
         private final ChainGaussian normal = new ChainGaussian();
         private final double[] levels = new double[s.segments];
         private final double[] values = new double[s.segments * s.arms];
+        /** Warmup draws of the effect scale, to place the split of the partially centred move. */
+        private final java.util.ArrayList<Double> warmupScales = new java.util.ArrayList<>();
+        private double split = Double.NaN;
+        private boolean frozen;
 
         Interweave(int size) {
             slice = new LocalSlice(size, 0.5);
@@ -78,8 +106,85 @@ final class HyperStep implements Step {
             }
             if (!s.sharedEffects) {
                 effects(x, rng);
+                if (likelihood != null) {
+                    partiallyCentred(x, adapt);
+                }
             }
             state.invalidate();
+        }
+
+        /**
+         * The effect scale given the centred effects of the segments whose data pin them (raw-estimate variance
+         * below split^2) and the non-centred effects z of the others: the likelihood of those others' cells
+         * moves with tau, the prior of the pinned ones too. Neither extreme parameterisation moves tau when a
+         * few segments are large and many are small; this one does. The split is the median effect scale of
+         * the second half of warmup, fixed for the kept draws.
+         */
+        private void partiallyCentred(double[] x, boolean adapt) {
+            double tau = Math.exp(x[s.logTauEffect]);
+            if (adapt) {
+                warmupScales.add(tau);
+                split = median(warmupScales.subList(warmupScales.size() / 2, warmupScales.size()));
+            } else if (!frozen) {
+                frozen = true;
+                if (!warmupScales.isEmpty()) {
+                    split = median(warmupScales.subList(warmupScales.size() / 2, warmupScales.size()));
+                }
+            }
+            if (Double.isNaN(split)) {
+                return;
+            }
+            int arms = s.arms;
+            s.values(x, values);
+            double pinnedSquares = 0;
+            int pinnedCount = 0;
+            int free = 0;
+            int[] freeCells = new int[s.segments * arms];
+            double[] freeBase = new double[s.segments * arms];
+            double[] freeZ = new double[s.segments * arms];
+            for (int j = 0; j < s.segments; j++) {
+                boolean pinned = effectNoise[j] < split * split;
+                double level = values[j * arms + s.control];
+                for (int k = 0; k < arms; k++) {
+                    if (k == s.control) {
+                        continue;
+                    }
+                    double e = values[j * arms + k] - level - x[s.armMean[k]];
+                    if (pinned) {
+                        pinnedSquares += e * e;
+                        pinnedCount++;
+                    } else {
+                        freeCells[free] = j * arms + k;
+                        freeBase[free] = level + x[s.armMean[k]];
+                        freeZ[free] = e / tau;
+                        free++;
+                    }
+                }
+            }
+            double ss = pinnedSquares;
+            int n = pinnedCount, f = free;
+            slice.update(x, s.logTauEffect, l -> {
+                double t = Math.exp(l);
+                double lp = HierarchicalCells.halfNormalOnLog(l, prior.effectScale()) - n * l - ss / (2 * t * t);
+                for (int i = 0; i < f; i++) {
+                    lp += likelihood.at(x, freeCells[i], freeBase[i] + t * freeZ[i]);
+                }
+                return lp;
+            });
+            double newTau = Math.exp(x[s.logTauEffect]);
+            // write back: pinned effects keep their centred value, free ones their z
+            for (int j = 0; j < s.segments; j++) {
+                boolean pinned = effectNoise[j] < split * split;
+                double level = values[j * arms + s.control];
+                for (int k = 0; k < arms; k++) {
+                    if (k == s.control) {
+                        continue;
+                    }
+                    double e = values[j * arms + k] - level - x[s.armMean[k]];
+                    double newEffect = pinned ? e : e / tau * newTau;
+                    x[s.effect[j][k]] = s.effectNc[j] ? newEffect / newTau : level + x[s.armMean[k]] + newEffect;
+                }
+            }
         }
 
         private void effects(double[] x, UniformRandomProvider rng) {
@@ -116,6 +221,11 @@ final class HyperStep implements Step {
                     }
                 }
             }
+        }
+
+        private double median(java.util.List<Double> v) {
+            double[] a = v.stream().mapToDouble(Double::doubleValue).sorted().toArray();
+            return a.length == 0 ? Double.NaN : a[a.length / 2];
         }
 
         /** Slice update of log tau given n centred values with squared deviations ss around their mean. */

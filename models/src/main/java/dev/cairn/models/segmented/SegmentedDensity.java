@@ -161,6 +161,32 @@ final class SegmentedDensity implements GradientTarget {
         return lp;
     }
 
+    /** The binomial log likelihood of one cell at payer-rate logit eta (0 for a cell without users). */
+    double payerCell(double[] x, int cell, double eta) {
+        double n = cells.users[cell];
+        if (n == 0) {
+            return 0;
+        }
+        double t = Math.exp(-Math.abs(eta));
+        return cells.payers[cell] * eta - n * (Math.max(eta, 0) + Math.log(1 + t));
+    }
+
+    /**
+     * The lognormal log likelihood of one cell's payers at mean log spend mu, with the cell's sigma from the
+     * point x (0 for a cell without payers).
+     */
+    double meanCell(double[] x, int cell, double mu) {
+        double m = cells.payers[cell];
+        if (m == 0) {
+            return 0;
+        }
+        int arms = cells.armCount(), j = cell / arms, k = cell % arms;
+        HierarchicalCells spread = layout.spread;
+        double logSigma = spread.level(x, j) + (k == cells.control ? 0 : x[spread.armMean[k]]);
+        double squares = cells.logSpendSqSum[cell] - 2 * mu * cells.logSpendSum[cell] + m * mu * mu;
+        return -0.5 * squares * Math.exp(-2 * logSigma);
+    }
+
     /**
      * A dispersed start around each segment's own estimates ({@link RawEstimates}): a level or a centred
      * effect at its raw estimate plus a uniform jitter of +-2 of the estimate's standard errors (at most

@@ -51,12 +51,15 @@ final class SegmentedPosterior {
             case "metropolis-within-gibbs" -> Sweep.of(MetropolisStep.of(0.5));
             default -> cells.spend
                     ? Sweep.of(NutsStep.of(settings.warmup(), range(0, layout.payerEnd), 10, 0.8).on(density.part(true)),
-                            new HyperStep(layout.payer, SegmentedLayout.PAYER),
+                            new HyperStep(layout.payer, SegmentedLayout.PAYER, density::payerCell,
+                                    layout.raw.effectVariance[0]),
                             NutsStep.of(settings.warmup(), range(layout.payerEnd, layout.size()), 10, 0.8).on(density.part(false)),
-                            new HyperStep(layout.mean, SegmentedLayout.MEAN),
+                            new HyperStep(layout.mean, SegmentedLayout.MEAN, density::meanCell,
+                                    layout.raw.effectVariance[1]),
                             new CollapsedSpendLevels(cells, layout),
-                            new HyperStep(layout.spread, SegmentedLayout.SPREAD))
-                    : Sweep.of(NutsStep.of(settings.warmup()), new HyperStep(layout.payer, SegmentedLayout.PAYER));
+                            new HyperStep(layout.spread, SegmentedLayout.SPREAD, null, null))
+                    : Sweep.of(NutsStep.of(settings.warmup()), new HyperStep(layout.payer, SegmentedLayout.PAYER,
+                            density::payerCell, layout.raw.effectVariance[0]));
         };
         return ChainRunner.of(settings).withProgress(progress).withCancellation(cancellation)
                 .run(density, sweep, (chain, p, rng) -> density.start(rng));
