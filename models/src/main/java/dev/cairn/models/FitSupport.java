@@ -70,25 +70,6 @@ public final class FitSupport {
         return control;
     }
 
-    /**
-     * Runs chains of a model whose sweep is hand-built: {@code size} unconstrained internal coordinates named
-     * x0, x1, ..., the joint log density (for the chain's bookkeeping), one updater made per chain, and the
-     * model's own dispersed starts.
-     */
-    public static Draws runInternal(int size, dev.cairn.samplers.LogDensity joint,
-                                    java.util.function.Supplier<dev.cairn.samplers.Step.Updater> perChain,
-                                    java.util.function.Function<org.apache.commons.rng.UniformRandomProvider, double[]> start,
-                                    RunSettings settings, dev.cairn.samplers.Progress progress,
-                                    dev.cairn.samplers.Cancellation cancellation) {
-        String[] names = new String[size];
-        for (int i = 0; i < size; i++) {
-            names[i] = "x" + i;
-        }
-        dev.cairn.samplers.Target target = dev.cairn.samplers.Target.of(dev.cairn.samplers.Parameters.real(names), joint);
-        return dev.cairn.samplers.ChainRunner.of(settings).withProgress(progress).withCancellation(cancellation)
-                .run(target, dev.cairn.samplers.Sweep.of(t -> perChain.get()), (chain, p, rng) -> start.apply(rng));
-    }
-
     /** The warning put first in a result that did not converge. */
     public static String notConverged(DiagnosticsReport report) {
         return "NOT converged: " + String.join("; ", report.reasons())

@@ -44,12 +44,10 @@ public final class RetentionFit {
         // One arm (no arm column) is a plain curve fit with nothing to compare; otherwise arms need a control.
         String control = arms.size() == 1 && (spec.control() == null || spec.control().equals(arms.get(0)))
                 ? arms.get(0) : FitSupport.control(spec, arms, data.source());
-        if ("exact".equals(spec.samplerOrDefault().method())) {
-            throw new InputException("/sampler/method: retention has no closed-form posterior; use 'auto'");
-        }
+        String method = RetentionPosterior.method(spec.samplerOrDefault().method());
         RetentionPosterior model = new RetentionPosterior(data, control, survival);
         RunSettings settings = FitSupport.runSettings(spec, options, false);
-        Draws internal = model.sample(settings, options.progress(), options.cancellation());
+        Draws internal = model.sample(method, settings, options.progress(), options.cancellation());
 
         int horizon = spec.ltv() == null ? 0 : spec.ltv().horizon();
         double[][] revenue = spec.ltv() == null ? null
@@ -132,7 +130,7 @@ public final class RetentionFit {
         RetentionResult result = new RetentionResult("retention", spec.title(), report.converged(), spec.curve(), control,
                 level, days, new DataInfo(data.source(), "cohort-days", data.rows(), 0, null), armOut, comparisons,
                 cohorts, drift, ltv, DiagnosticsSummary.of(report),
-                new Run("metropolis-within-gibbs", settings.chains(), settings.warmup(), settings.draws(), settings.thin(),
+                new Run(method, settings.chains(), settings.warmup(), settings.draws(), settings.thin(),
                         settings.seed(), seconds, Version.get()),
                 priors, warnings, Result.CAUTIONS);
         return new FitOutcome(result, draws, curveBands(internal, model, data, days, level, horizon));
@@ -156,10 +154,10 @@ public final class RetentionFit {
         int step = Math.max(1, total / 400);
         int kept = (total + step - 1) / step;
         java.util.Map<String, Object> out = new LinkedHashMap<>();
-        double[] x = new double[m.size];
+        double[] x = new double[m.size], coordinates = new double[m.size];
         double[][] columns = new double[m.size][];
         for (int i = 0; i < m.size; i++) {
-            columns[i] = internal.pooled("x" + i);
+            columns[i] = internal.pooled(m.parameters.name(i));
         }
         double[] curve = new double[maxDay + 1];
         for (int k = 0; k < data.arms().size(); k++) {
@@ -167,8 +165,9 @@ public final class RetentionFit {
             int j = 0;
             for (int draw = 0; draw < total; draw += step, j++) {
                 for (int i = 0; i < m.size; i++) {
-                    x[i] = columns[i][draw];
+                    coordinates[i] = columns[i][draw];
                 }
+                m.centred(coordinates, x);
                 double installs = 0;
                 double[] sum = new double[maxDay + 1];
                 for (int c = 0; c < data.cohorts().size(); c++) {

@@ -68,18 +68,19 @@ final class RetentionOutputs {
         }
         int chains = internal.chains(), iterations = internal.iterations();
         double[][][] out = new double[chains][names.size()][iterations];
-        double[] x = new double[m.size];
+        double[] x = new double[m.size], coordinates = new double[m.size];
         double[][] columns = new double[m.size][];
         double[][] curves = new double[arms.size() * cohorts.size()][maxDay + 1];
         double[] weighted = new double[maxDay + 1];
         for (int ch = 0; ch < chains; ch++) {
             for (int i = 0; i < m.size; i++) {
-                columns[i] = internal.column("x" + i)[ch];
+                columns[i] = internal.column(m.parameters.name(i))[ch];
             }
             for (int t = 0; t < iterations; t++) {
                 for (int i = 0; i < m.size; i++) {
-                    x[i] = columns[i][t];
+                    coordinates[i] = columns[i][t];
                 }
+                m.centred(coordinates, x);
                 int col = 0;
                 out[ch][col++][t] = Math.exp(x[m.logSigmaL]);
                 out[ch][col++][t] = Math.exp(x[m.logSigmaS]);
@@ -88,8 +89,8 @@ final class RetentionOutputs {
                 }
                 for (int k = 0; k < arms.size(); k++) {
                     if (k != m.control) {
-                        out[ch][col++][t] = x[m.offLevel + k];
-                        out[ch][col++][t] = x[m.offSlope + k];
+                        out[ch][col++][t] = m.offL(x, k);
+                        out[ch][col++][t] = m.offS(x, k);
                     }
                 }
                 for (int c = 0; c < cohorts.size(); c++) {

@@ -26,11 +26,12 @@ class LtvTest {
         x[m.logSigmaL] = Math.log(0.1);
         x[m.logSigmaS] = Math.log(0.1);
         x[m.logKappa] = Math.log(100);
+        x = m.coordinates(x);
         double[][][] values = new double[1][m.size][1];
         String[] names = new String[m.size];
         for (int i = 0; i < m.size; i++) {
             values[0][i][0] = x[i];
-            names[i] = "x" + i;
+            names[i] = m.parameters.name(i);
         }
         Draws internal = Draws.of(List.of(names), values);
         int horizon = 90;

@@ -139,6 +139,24 @@ class RetentionCalibrationTest {
         assertEquals(replications, armDetected, "arm offset of +0.3 on the logit detected every time");
     }
 
+    /** The centred value (L_c or S_c) at coordinate i of every draw, chains one after the other. */
+    static double[] centred(RetentionPosterior m, Draws d, int i) {
+        double[][] columns = new double[m.size][];
+        for (int j = 0; j < m.size; j++) {
+            columns[j] = d.pooled(m.parameters.name(j));
+        }
+        double[] out = new double[columns[0].length];
+        double[] x = new double[m.size], c = new double[m.size];
+        for (int t = 0; t < out.length; t++) {
+            for (int j = 0; j < m.size; j++) {
+                x[j] = columns[j][t];
+            }
+            m.centred(x, c);
+            out[t] = c[i];
+        }
+        return out;
+    }
+
     @Test
     void simulationBasedCalibrationOfBothFamilies() {
         for (boolean survival : new boolean[] {false, true}) {
@@ -163,8 +181,8 @@ class RetentionCalibrationTest {
                 CohortDays data = simulate(survival, level, slope, 0, 1, 300, kappa, rng);
                 RetentionPosterior m = new RetentionPosterior(data, CohortDays.SINGLE_ARM, survival);
                 Draws d = m.sample(RunSettings.of(1, 300, 380, 500 + r), Progress.NONE, new Cancellation());
-                sbc.add("level[0]", level[0], Sbc.thin(d.pooled("x" + m.level), 19));
-                sbc.add("slope[2]", slope[2], Sbc.thin(d.pooled("x" + (m.slope + 2)), 19));
+                sbc.add("level[0]", level[0], Sbc.thin(d.pooled(m.parameters.name(m.level)), 19));
+                sbc.add("slope[2]", slope[2], Sbc.thin(centred(m, d, m.slope + 2), 19));
             }
             for (Map.Entry<String, Sbc.RankHistogram> e : sbc.histograms(5).entrySet()) {
                 assertTrue(e.getValue().uniformAt(0.001), (survival ? "survival " : "activity ") + e.getKey() + ": p = "

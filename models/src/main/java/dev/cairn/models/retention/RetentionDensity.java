@@ -1,0 +1,209 @@
+package dev.cairn.models.retention;
+
+import dev.cairn.samplers.GradientTarget;
+import dev.cairn.samplers.Parameters;
+import org.apache.commons.math3.special.Gamma;
+
+/**
+ * The retention posterior's log density and its gradient, from the cohort-day counts (the model is written
+ * out in {@link RetentionPosterior}). Per observed cell (cohort c, arm k, day t) with n installs and y active:
+ * <pre>
+ * activity:  z = l + s x_t (x_t = log(1 + t) - log 8),  r = logistic(z),  a = r kappa,  b = (1 - r) kappa
+ *            log p = lgamma(y + a) + lgamma(n - y + b) - lgamma(a) - lgamma(b) + lgamma(kappa) - lgamma(n + kappa)
+ *            d/dz = kappa r (1 - r) [(psi(y + a) - psi(a)) - (psi(n - y + b) - psi(b))]
+ *            d/d log kappa = kappa [r (psi(y + a) - psi(a)) + (1 - r)(psi(n - y + b) - psi(b)) + psi(kappa) - psi(n + kappa)]
+ * survival:  log S(t) = lgamma(beta + t) - lgamma(beta) - lgamma(alpha + beta + t) + lgamma(alpha + beta)
+ *            d log S / d alpha = psi(alpha + beta) - psi(alpha + beta + t)
+ *            d log S / d beta  = psi(beta + t) - psi(beta) - psi(alpha + beta + t) + psi(alpha + beta)
+ *            log(S(u) - S(v)) = log S(u) + log(1 - w), w = S(v)/S(u): derivative (dlogS(u) - w dlogS(v)) / (1 - w)
+ * </pre>
+ * (psi the digamma function, commons-math3); the binomial coefficients are constant and dropped. Priors:
+ * the random walks' normal terms with log sigma's Jacobian, half-normal drift scales on the log scale,
+ * normal offsets and log kappa. The likelihood is evaluated on the centred series and its gradient carried
+ * to the walks' non-centred coordinates by the chain rule.
+ */
+final class RetentionDensity implements GradientTarget {
+    private final RetentionPosterior m;
+    private final double[] covariate;
+    /** Per thread: the point with centred series (targets are shared by chains running in parallel). */
+    private final ThreadLocal<double[]> scratch;
+
+    RetentionDensity(RetentionPosterior model) {
+        this.m = model;
+        this.scratch = ThreadLocal.withInitial(() -> new double[model.size]);
+        int maxDay = 0;
+        for (int[] d : model.days) {
+            for (int t : d) {
+                maxDay = Math.max(maxDay, t);
+            }
+        }
+        covariate = new double[maxDay + 1];
+        for (int t = 0; t <= maxDay; t++) {
+            covariate[t] = Math.log1p(t) - RetentionPosterior.CENTRE;
+        }
+    }
+
+    @Override
+    public Parameters parameters() {
+        return m.parameters;
+    }
+
+    @Override
+    public double logDensity(double[] x) {
+        return logDensityAndGradient(x, new double[x.length]);
+    }
+
+    @Override
+    public double logDensityAndGradient(double[] x, double[] g) {
+        java.util.Arrays.fill(g, 0);
+        double[] centred = scratch.get();
+        m.centred(x, centred);
+        // likelihood in the centred series (its gradient lands on L_c and S_c), then the chain rule to the steps
+        double lp = 0;
+        for (int c = 0; c < m.cohorts; c++) {
+            for (int k = 0; k < m.arms; k++) {
+                if (m.n[c][k] == 0 || m.days(c, k).length == 0) {
+                    continue;
+                }
+                lp += m.survival ? survival(centred, g, c, k) : activity(centred, g, c, k);
+            }
+        }
+        lp += walk(x, g, m.level, m.levelMean(), m.levelSd(), m.logSigmaL, m.levelNc)
+                + walk(x, g, m.slope, m.slopeMean(), m.slopeSd(), m.logSigmaS, m.slopeNc);
+        for (int i = m.offLevel; i < m.logSigmaL; i++) {
+            lp -= 0.5 * x[i] * x[i] / (RetentionPosterior.OFFSET_SD * RetentionPosterior.OFFSET_SD);
+            g[i] -= x[i] / (RetentionPosterior.OFFSET_SD * RetentionPosterior.OFFSET_SD);
+        }
+        if (!m.survival) {
+            double r = (x[m.logKappa] - RetentionPosterior.LOG_KAPPA_MEAN) / RetentionPosterior.LOG_KAPPA_SD;
+            lp -= 0.5 * r * r;
+            g[m.logKappa] -= r / RetentionPosterior.LOG_KAPPA_SD;
+        }
+        return lp;
+    }
+
+    /**
+     * The non-centred walk: coordinates first (L_1) and steps eps_c, L_c = L_{c-1} + sigma eps_c. On entry
+     * g[first + c] holds d(log likelihood)/dL_c; on exit the gradient with respect to the coordinates (L_1:
+     * the sum of all; eps_c: sigma times the sum from c on; log sigma: sum_c sigma eps_c times that sum), plus
+     * the priors L_1 ~ N(firstMean, firstSd^2), eps_c ~ N(0, 1) and sigma ~ half-N(0, 0.25^2) with the Jacobian.
+     */
+    private double walk(double[] x, double[] g, int first, double firstMean, double firstSd, int logSigma,
+                        boolean nonCentred) {
+        if (!nonCentred) {
+            return centredWalk(x, g, first, firstMean, firstSd, logSigma);
+        }
+        double sigma = Math.exp(x[logSigma]);
+        double suffix = 0;
+        for (int c = m.cohorts - 1; c >= 1; c--) {
+            suffix += g[first + c];
+            double eps = x[first + c];
+            g[first + c] = sigma * suffix - eps;
+            g[logSigma] += sigma * eps * suffix;
+        }
+        suffix += g[first];
+        double r0 = (x[first] - firstMean) / firstSd;
+        g[first] = suffix - r0 / firstSd;
+        double lp = -0.5 * r0 * r0;
+        for (int c = 1; c < m.cohorts; c++) {
+            lp -= 0.5 * x[first + c] * x[first + c];
+        }
+        double t = sigma / RetentionPosterior.DRIFT_SD;
+        lp += -0.5 * t * t + x[logSigma];
+        g[logSigma] += -t * t + 1;
+        return lp;
+    }
+
+    /** The centred walk: N(L_1; firstMean, firstSd^2) prod N(L_c; L_{c-1}, sigma^2), half-normal sigma. */
+    private double centredWalk(double[] x, double[] g, int first, double firstMean, double firstSd, int logSigma) {
+        double r0 = (x[first] - firstMean) / firstSd;
+        double lp = -0.5 * r0 * r0;
+        g[first] -= r0 / firstSd;
+        double l = x[logSigma], sigma = Math.exp(l);
+        for (int c = 1; c < m.cohorts; c++) {
+            double r = (x[first + c] - x[first + c - 1]) / sigma;
+            lp -= 0.5 * r * r + l;
+            g[first + c] -= r / sigma;
+            g[first + c - 1] += r / sigma;
+            g[logSigma] += r * r - 1;
+        }
+        double t = sigma / RetentionPosterior.DRIFT_SD;
+        lp += -0.5 * t * t + l;
+        g[logSigma] += -t * t + 1;
+        return lp;
+    }
+
+    private double activity(double[] x, double[] g, int c, int k) {
+        double l = x[m.level + c] + m.offL(x, k), s = x[m.slope + c] + m.offS(x, k);
+        double kappa = Math.exp(x[m.logKappa]);
+        double n = m.n[c][k];
+        double kappaTerms = Gamma.logGamma(kappa) - Gamma.logGamma(n + kappa);
+        double kappaSlope = Gamma.digamma(kappa) - Gamma.digamma(n + kappa);
+        int[] ds = m.days(c, k);
+        long[] ys = m.active[c][k];
+        double lp = 0, gz = 0, gzs = 0, gKappa = 0;
+        for (int i = 0; i < ds.length; i++) {
+            double xt = covariate[ds[i]];
+            double z = l + s * xt;
+            double e = Math.exp(-Math.abs(z));
+            double r = z >= 0 ? 1 / (1 + e) : e / (1 + e);
+            double q = z >= 0 ? e / (1 + e) : 1 / (1 + e);
+            double a = r * kappa, b = q * kappa;
+            double y = ys[i];
+            lp += Gamma.logGamma(y + a) + Gamma.logGamma(n - y + b) - Gamma.logGamma(a) - Gamma.logGamma(b) + kappaTerms;
+            double da = Gamma.digamma(y + a) - Gamma.digamma(a);
+            double db = Gamma.digamma(n - y + b) - Gamma.digamma(b);
+            double dz = kappa * r * q * (da - db);
+            gz += dz;
+            gzs += dz * xt;
+            gKappa += kappa * (r * da + q * db + kappaSlope);
+        }
+        addCurve(g, c, k, gz, gzs);
+        g[m.logKappa] += gKappa;
+        return lp;
+    }
+
+    private double survival(double[] x, double[] g, int c, int k) {
+        double alpha = Math.exp(x[m.level + c] + m.offL(x, k)), beta = Math.exp(x[m.slope + c] + m.offS(x, k));
+        double lgBeta = Gamma.logGamma(beta), lgSum = Gamma.logGamma(alpha + beta);
+        double psiBeta = Gamma.digamma(beta), psiSum = Gamma.digamma(alpha + beta);
+        int[] ds = m.days(c, k);
+        long[] ys = m.active[c][k];
+        double lp = 0, gAlpha = 0, gBeta = 0;
+        double prevLog = 0, prevA = 0, prevB = 0;
+        double previous = m.n[c][k];
+        for (int i = 0; i < ds.length; i++) {
+            double t = ds[i];
+            double psiSumT = Gamma.digamma(alpha + beta + t);
+            double logS = Gamma.logGamma(beta + t) - lgBeta - Gamma.logGamma(alpha + beta + t) + lgSum;
+            double dA = psiSum - psiSumT;
+            double dB = Gamma.digamma(beta + t) - psiBeta - psiSumT + psiSum;
+            double lost = previous - ys[i];
+            if (lost > 0) {
+                double w = Math.exp(logS - prevLog);
+                lp += lost * (prevLog + Math.log1p(-w));
+                gAlpha += lost * (prevA - w * dA) / (1 - w);
+                gBeta += lost * (prevB - w * dB) / (1 - w);
+            }
+            previous = ys[i];
+            prevLog = logS;
+            prevA = dA;
+            prevB = dB;
+        }
+        lp += previous * prevLog;
+        gAlpha += previous * prevA;
+        gBeta += previous * prevB;
+        addCurve(g, c, k, alpha * gAlpha, beta * gBeta);
+        return lp;
+    }
+
+    /** Adds the derivatives with respect to the cell's level and slope to the cohort's and the arm's. */
+    private void addCurve(double[] g, int c, int k, double dLevel, double dSlope) {
+        g[m.level + c] += dLevel;
+        g[m.slope + c] += dSlope;
+        if (k != m.control) {
+            g[m.offset(m.offLevel, k)] += dLevel;
+            g[m.offset(m.offSlope, k)] += dSlope;
+        }
+    }
+}
