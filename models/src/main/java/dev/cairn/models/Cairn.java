@@ -32,12 +32,18 @@ public final class Cairn {
 
     /** Fits a validated spec; relative data paths resolve against {@code baseDir}. */
     public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
-        return switch (spec.model()) {
-            case "spend" -> SpendFit.fit(spec, baseDir, options);
-            case "pooled-effects" -> PooledFit.fit(spec, baseDir, options);
-            case "segmented-spend" -> SegmentedFit.fit(spec, baseDir, options);
-            case "retention" -> RetentionFit.fit(spec, baseDir, options);
-            default -> throw new InputException("/model: unknown model '" + spec.model() + "'");
-        };
+        try {
+            return switch (spec.model()) {
+                case "spend" -> SpendFit.fit(spec, baseDir, options);
+                case "pooled-effects" -> PooledFit.fit(spec, baseDir, options);
+                case "segmented-spend" -> SegmentedFit.fit(spec, baseDir, options);
+                case "retention" -> RetentionFit.fit(spec, baseDir, options);
+                default -> throw new InputException("/model: unknown model '" + spec.model() + "'");
+            };
+        } catch (dev.cairn.samplers.NoStartException e) {
+            // the posterior is zero wherever the sampler looked: data the model cannot produce, not a cairn bug
+            throw new InputException("/data: the model gives these data zero probability at every starting point ("
+                    + e.getMessage() + "); look for counts or sums it cannot produce");
+        }
     }
 }

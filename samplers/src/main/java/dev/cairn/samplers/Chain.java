@@ -40,8 +40,7 @@ public final class Chain {
                 return new Chain(state, sweep.start(target), rng);
             }
         }
-        throw new IllegalStateException("chain " + (chainIndex + 1) + ": no starting point with finite log density in "
-                + START_ATTEMPTS + " attempts");
+        throw new NoStartException(chainIndex + 1, START_ATTEMPTS);
     }
 
     /** One sweep of every step; {@code adapt} is true only in warmup. */

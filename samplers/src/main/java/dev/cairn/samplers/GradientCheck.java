@@ -18,24 +18,13 @@ public final class GradientCheck {
      * @return the largest scaled discrepancy; NaN when the density is not finite at a probed point
      */
     public static double maxError(GradientTarget target, double[] point) {
-        double[] x = point.clone();
-        double[] gradient = new double[x.length];
-        double[] scratch = new double[x.length];
-        target.logDensityAndGradient(x, gradient);
+        double[][] compared = compare(target, point);
         double worst = 0;
-        for (int i = 0; i < x.length; i++) {
-            double h = 1e-5 * Math.max(1, Math.abs(x[i]));
-            double saved = x[i];
-            x[i] = saved + h;
-            double up = target.logDensityAndGradient(x, scratch);
-            x[i] = saved - h;
-            double down = target.logDensityAndGradient(x, scratch);
-            x[i] = saved;
-            double numeric = (up - down) / (2 * h);
-            if (!Double.isFinite(numeric)) {
+        for (double[] c : compared) {
+            if (!Double.isFinite(c[1])) {
                 return Double.NaN;
             }
-            worst = Math.max(worst, Math.abs(gradient[i] - numeric) / Math.max(1, Math.abs(numeric)));
+            worst = Math.max(worst, error(c));
         }
         return worst;
     }
@@ -49,12 +38,28 @@ public final class GradientCheck {
      * @return a one-line description
      */
     public static String worst(GradientTarget target, double[] point) {
+        double[][] compared = compare(target, point);
+        int at = -1;
+        for (int i = 0; i < compared.length; i++) {
+            if (at < 0 || !(error(compared[i]) <= error(compared[at]))) {
+                at = i;
+            }
+        }
+        return at < 0 ? "no coordinates" : target.parameters().name(at) + ": analytic " + compared[at][0] + ", numeric "
+                + compared[at][1];
+    }
+
+    private static double error(double[] c) {
+        return Math.abs(c[0] - c[1]) / Math.max(1, Math.abs(c[1]));
+    }
+
+    /** Per coordinate {analytic, numeric} derivative. */
+    private static double[][] compare(GradientTarget target, double[] point) {
         double[] x = point.clone();
         double[] gradient = new double[x.length];
         double[] scratch = new double[x.length];
         target.logDensityAndGradient(x, gradient);
-        String line = "no coordinates";
-        double worst = -1;
+        double[][] out = new double[x.length][];
         for (int i = 0; i < x.length; i++) {
             double h = 1e-5 * Math.max(1, Math.abs(x[i]));
             double saved = x[i];
@@ -63,13 +68,8 @@ public final class GradientCheck {
             x[i] = saved - h;
             double down = target.logDensityAndGradient(x, scratch);
             x[i] = saved;
-            double numeric = (up - down) / (2 * h);
-            double error = Math.abs(gradient[i] - numeric) / Math.max(1, Math.abs(numeric));
-            if (!(error <= worst)) {
-                worst = error;
-                line = target.parameters().name(i) + ": analytic " + gradient[i] + ", numeric " + numeric;
-            }
+            out[i] = new double[] {gradient[i], (up - down) / (2 * h)};
         }
-        return line;
+        return out;
     }
 }

@@ -106,7 +106,7 @@ class NutsTest {
         for (int t = 0; t < 500; t++) {
             chain.iterate(true);
         }
-        NutsStep.NutsUpdater u = (NutsStep.NutsUpdater) chain.updater(0);
+        NutsUpdater u = (NutsUpdater) chain.updater(0);
         chain.iterate(false);
         double eps = u.stepSize();
         double[] metric = u.inverseMetric();

@@ -68,23 +68,7 @@ final class SegmentedDensity implements GradientTarget {
      * @return a density over all coordinates whose value and gradient are those of the part
      */
     GradientTarget part(boolean payer) {
-        SegmentedDensity self = this;
-        return new GradientTarget() {
-            @Override
-            public Parameters parameters() {
-                return layout.parameters;
-            }
-
-            @Override
-            public double logDensity(double[] x) {
-                return logDensityAndGradient(x, new double[x.length]);
-            }
-
-            @Override
-            public double logDensityAndGradient(double[] x, double[] gradient) {
-                return self.parts(x, gradient, payer, !payer);
-            }
-        };
+        return GradientTarget.of(layout.parameters, (x, gradient) -> parts(x, gradient, payer, !payer));
     }
 
     private double parts(double[] x, double[] gradient, boolean payerPart, boolean spendPart) {
