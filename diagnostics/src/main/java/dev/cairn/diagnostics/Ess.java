@@ -106,7 +106,7 @@ public final class Ess {
         }
         // When the first pair already sums to <= 0 (antithetic chains, lag-1 autocorrelation near -1), the
         // reference implementation (R package posterior 1.4.0, ess_rfun: sum(rho_hat_t[1:max_t]) with max_t = 0
-        // sums the first element) and Stan count rho_0 once, so tau = 2 and ESS = MN/2; follow it rather than
+        // sums the first element) counts rho_0 once, so tau = 2 and ESS = MN/2; follow it rather than
         // report MN log10(MN) for a pathological sampler.
         if (maxT == 0) {
             sum = rho[0];

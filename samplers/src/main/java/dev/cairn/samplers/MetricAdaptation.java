@@ -1,7 +1,7 @@
 package dev.cairn.samplers;
 
 /**
- * The warmup schedule of a diagonal mass matrix, as in Stan's windowed adaptation: an initial fast phase
+ * The warmup schedule of a diagonal mass matrix in windows (common practice for NUTS): an initial fast phase
  * (step size only), then slow windows of doubling length in which the variance of each coordinate is
  * estimated (Welford), and a final fast phase in which only the step size moves. After each slow window
  * the inverse metric becomes the regularised variance (n/(n + 5)) var + 1e-3 (5/(n + 5)), which keeps it

@@ -20,7 +20,7 @@ package dev.cairn.samplers;
  * <p>Coordinates outside the block are held fixed, so the step combines with exact Gibbs draws of others.
  */
 public final class NutsStep implements Step {
-    /** Energy error beyond which a trajectory is called divergent (as in Stan). */
+    /** Energy error beyond which a trajectory is called divergent (common practice). */
     static final double MAX_ENERGY_ERROR = 1000;
     /** Hessian-vector products behind the first metric. */
     static final int CURVATURE_PROBES = 8;

@@ -34,8 +34,8 @@ public final class NutsUpdater implements Step.Updater {
     private long transitions;
     private long totalLeapfrogs;
     private int lastDepth;
-    /** Whether a metric window has closed yet; before that, trajectories are capped at FIRST_PHASE_DEPTH. */
-    private boolean metricLearned;
+    /** Metric windows closed so far: trajectories are capped before the first and until the third. */
+    private int windowsClosed;
     /**
      * Tree depth at most while warmup still runs on the first metric guess: chains far out in the tails with
      * an unadapted metric otherwise spend the first iterations on 1,023-step trajectories. Any depth keeps
@@ -43,8 +43,10 @@ public final class NutsUpdater implements Step.Updater {
      */
     static final int FIRST_PHASE_DEPTH = 6;
     /**
-     * Tree depth at most for the rest of warmup: while the metric is still being learned a trajectory that
-     * needs more than 255 steps says the metric is wrong, not that the posterior needs them.
+     * Tree depth at most until the third metric window closes (iteration 250 of the windowed schedule for 1,000
+     * warmup iterations): while the metric is still a rough estimate, a trajectory that needs more than 255
+     * steps says the metric is wrong, not that the posterior needs them. The later, longer windows and the
+     * final step-size phase run at full depth, so adaptation ends on the trajectories the kept draws use.
      */
     static final int WARMUP_DEPTH = 8;
     private final boolean partial;
@@ -157,7 +159,7 @@ public final class NutsUpdater implements Step.Updater {
         if (adapt) {
             stepSize = stepSizes.learn(acceptance);
             if (metric.record(x, block, ham.inverseMetric)) {
-                metricLearned = true;
+                windowsClosed++;
                 System.arraycopy(x, 0, z.q, 0, x.length);
                 ham.evaluate(z);
                 findStepSize();
@@ -188,7 +190,8 @@ public final class NutsUpdater implements Step.Updater {
         sumAcceptance = 0;
         divergent = false;
         int depth = 0;
-        int depthLimit = adapting ? Math.min(maxDepth, metricLearned ? WARMUP_DEPTH : FIRST_PHASE_DEPTH) : maxDepth;
+        int depthLimit = !adapting || windowsClosed >= 3 ? maxDepth
+                : Math.min(maxDepth, windowsClosed == 0 ? FIRST_PHASE_DEPTH : WARMUP_DEPTH);
         while (depth < depthLimit) {
             java.util.Arrays.fill(rhoFwd, 0);
             java.util.Arrays.fill(rhoBck, 0);
@@ -320,7 +323,7 @@ public final class NutsUpdater implements Step.Updater {
 
 
 
-    /** Doubles or halves the step size until one leapfrog step's acceptance crosses 0.8 (as Stan does). */
+    /** Doubles or halves the step size until one leapfrog step's acceptance crosses 0.8 (common practice). */
     private void findStepSize() {
         start.copyFrom(z, block, first);
         double logTarget = Math.log(0.8);
