@@ -6,17 +6,18 @@ package dev.cairn.models.retention;
  * squares of the empirical logit of the observed share ((y + 0.5)/(n + 1), per arm, then averaged over arms) on the curve's
  * covariate log(1 + t) - log 8, with their variances (scaled by the residual mean square when it exceeds
  * 1: day-to-day over-dispersion); the drift variance of a series is the moment estimate
- * mean(increment^2) - mean(noise of the increments). A series is non-centred when the median noise variance
- * of its cohorts exceeds {@value #NON_CENTRED_FACTOR} times the drift variance (the prior outweighs the data),
- * otherwise centred: centring pays when the data
+ * mean(increment^2) - mean(noise of the increments). The level walk is non-centred when the median noise
+ * variance of its cohorts exceeds {@value #NON_CENTRED_FACTOR} times the drift variance, the slope walk
+ * unless the drift variance exceeds that many times the noise: centring pays when the data
  * outweigh the prior (Papaspiliopoulos, Roberts & Skold 2007). Approximate for the survival curve (whose
  * coordinates are log alpha and log beta), which only affects speed, never the posterior.
  */
 final class WalkChoice {
     /**
-     * A series is non-centred only when its cohorts' noise exceeds the drift this many times: a non-centred
-     * walk whose cohorts the data do pin is far worse (every step moves all later cohorts) than a centred
-     * walk that barely drifts, so the choice leans to centring.
+     * How far the choice leans. Levels: non-centred only when the cohorts' noise exceeds the drift this many
+     * times (a non-centred walk whose cohorts the data pin is far worse, every step moving all later cohorts,
+     * than a centred walk that barely drifts). Slopes: centred only when the drift exceeds the noise this
+     * many times (slopes rarely drift, and a centred walk with a scale near zero is a funnel).
      */
     static final double NON_CENTRED_FACTOR = 4;
 
@@ -54,7 +55,8 @@ final class WalkChoice {
             double drift = Math.max(0, (sumSq - sumNoise) / increments);
             double[] sorted = java.util.Arrays.copyOf(noise, known);
             java.util.Arrays.sort(sorted);
-            out[s] = sorted[known / 2] > NON_CENTRED_FACTOR * drift;
+            double noiseVariance = sorted[known / 2];
+            out[s] = s == 0 ? noiseVariance > NON_CENTRED_FACTOR * drift : NON_CENTRED_FACTOR * noiseVariance > drift;
         }
         return out;
     }
