@@ -1,8 +1,5 @@
 package dev.cairn.bench;
 
-import dev.cairn.models.Cairn;
-import dev.cairn.models.FitOptions;
-import dev.cairn.models.FitOutcome;
 import dev.cairn.models.demo.RetentionScaleScenario;
 import dev.cairn.models.result.FitResult;
 import java.nio.file.Files;
@@ -22,13 +19,11 @@ public final class RetentionScaling {
     }
 
     public static void main(String[] args) throws Exception {
-        Path dir = Path.of(args.length > 0 ? args[0] : "bench-data");
-        Files.createDirectories(dir);
-        int[] sizes = args.length > 1 ? java.util.Arrays.stream(args, 1, args.length).mapToInt(Integer::parseInt).toArray()
-                : new int[] {13, 26, 52, 104};
+        ScalingRun run = new ScalingRun(args, 13, 26, 52, 104);
+        Path dir = run.dir;
+        int[] sizes = run.sizes;
         System.out.println("curve,cohorts,arms,cells,seconds,converged,maxRhat,minEssBulk,minEssTail,essPerSecond,"
                 + "microsecondsPerEffectiveDrawPerCell");
-        boolean warm = false;
         for (String curve : new String[] {"activity", "survival"}) {
             for (int cohorts : sizes) {
                 for (int arms : new int[] {2, 3}) {
@@ -41,14 +36,9 @@ public final class RetentionScaling {
                             {"model": "retention", "curve": "%s", "data": {"path": "%s.csv", "layout": "cohort-days"},
                              "control": "A"}
                             """.formatted(curve, name));
-                    if (!warm) {
-                        Cairn.fit(spec, FitOptions.DEFAULT);
-                        warm = true;
-                    }
-                    long t0 = System.nanoTime();
-                    FitOutcome out = Cairn.fit(spec, FitOptions.DEFAULT);
-                    double seconds = (System.nanoTime() - t0) / 1e9;
-                    FitResult r = out.result();
+                    ScalingRun.Timed fitted = run.fit(spec);
+                    FitResult r = fitted.result();
+                    double seconds = fitted.seconds();
                     double ess = r.diagnostics().minEssBulk();
                     System.out.printf(Locale.ROOT, "%s,%d,%d,%d,%.1f,%s,%.4f,%.0f,%.0f,%.1f,%.2f%n", curve, cohorts, arms,
                             cells, seconds, r.converged(), r.diagnostics().maxRhat(), ess, r.diagnostics().minEssTail(),

@@ -1,8 +1,5 @@
 package dev.cairn.bench;
 
-import dev.cairn.models.Cairn;
-import dev.cairn.models.FitOptions;
-import dev.cairn.models.FitOutcome;
 import dev.cairn.models.demo.StudioScaleScenario;
 import dev.cairn.models.result.Result;
 import java.nio.file.Files;
@@ -23,13 +20,11 @@ public final class SegmentedScaling {
     }
 
     public static void main(String[] args) throws Exception {
-        Path dir = Path.of(args.length > 0 ? args[0] : "bench-data");
-        Files.createDirectories(dir);
-        int[] sizes = args.length > 1 ? java.util.Arrays.stream(args, 1, args.length).mapToInt(Integer::parseInt).toArray()
-                : new int[] {10, 50, 200, 500};
+        ScalingRun run = new ScalingRun(args, 10, 50, 200, 500);
+        Path dir = run.dir;
+        int[] sizes = run.sizes;
         System.out.println("segments,arms,cells,seconds,converged,maxRhat,minEssBulk,minEssTail,essPerSecond,"
                 + "microsecondsPerEffectiveDrawPerCell,parameterisation");
-        boolean warm = false;
         for (int segments : sizes) {
             for (int arms : new int[] {3, 5}) {
                 String name = "studio-" + segments + "x" + arms;
@@ -38,14 +33,9 @@ public final class SegmentedScaling {
                 Files.writeString(spec, """
                         {"model": "segmented-spend", "data": {"path": "%s.csv", "layout": "summary"}, "control": "A"}
                         """.formatted(name));
-                if (!warm) {
-                    Cairn.fit(spec, FitOptions.DEFAULT);
-                    warm = true;
-                }
-                long t0 = System.nanoTime();
-                FitOutcome out = Cairn.fit(spec, FitOptions.DEFAULT);
-                double seconds = (System.nanoTime() - t0) / 1e9;
-                Result r = (Result) out.result();
+                ScalingRun.Timed fitted = run.fit(spec);
+                Result r = (Result) fitted.result();
+                double seconds = fitted.seconds();
                 int cells = segments * arms;
                 double ess = r.diagnostics().minEssBulk();
                 System.out.printf(Locale.ROOT, "%d,%d,%d,%.2f,%s,%.4f,%.0f,%.0f,%.1f,%.3f,\"%s\"%n", segments, arms, cells,

@@ -70,6 +70,25 @@ public final class FitSupport {
         return control;
     }
 
+    /**
+     * The sampler of a model without a closed-form posterior but with a gradient: "auto" (or none) and "nuts"
+     * run NUTS; "slice" and "metropolis-within-gibbs" update one coordinate at a time through the same density.
+     *
+     * @param requested the spec's sampler.method
+     * @param model     the model's name, for the message
+     * @return "nuts", "slice" or "metropolis-within-gibbs"
+     * @throws InputException for "exact"
+     */
+    public static String gradientMethod(String requested, String model) {
+        if (requested == null || requested.equals("auto") || requested.equals("nuts")) {
+            return "nuts";
+        }
+        if (requested.equals("slice") || requested.equals("metropolis-within-gibbs")) {
+            return requested;
+        }
+        throw new InputException("/sampler/method: " + model + " has no closed-form posterior; use 'auto' or 'nuts'");
+    }
+
     /** The warning put first in a result that did not converge. */
     public static String notConverged(DiagnosticsReport report) {
         return "NOT converged: " + String.join("; ", report.reasons())

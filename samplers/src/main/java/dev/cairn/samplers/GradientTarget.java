@@ -16,17 +16,18 @@ public interface GradientTarget extends Target {
      */
     double logDensityAndGradient(double[] unconstrained, double[] gradient);
 
+    /** The log density alone, through {@link #logDensityAndGradient} (override when it can be had cheaper). */
+    @Override
+    default double logDensity(double[] unconstrained) {
+        return logDensityAndGradient(unconstrained, new double[unconstrained.length]);
+    }
+
     /** A gradient target from a function that fills the gradient and returns the log density. */
     static GradientTarget of(Parameters parameters, Density density) {
         return new GradientTarget() {
             @Override
             public Parameters parameters() {
                 return parameters;
-            }
-
-            @Override
-            public double logDensity(double[] u) {
-                return density.at(u, new double[u.length]);
             }
 
             @Override

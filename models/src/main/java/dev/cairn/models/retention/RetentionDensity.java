@@ -49,11 +49,6 @@ final class RetentionDensity implements GradientTarget {
     }
 
     @Override
-    public double logDensity(double[] x) {
-        return logDensityAndGradient(x, new double[x.length]);
-    }
-
-    @Override
     public double logDensityAndGradient(double[] x, double[] g) {
         java.util.Arrays.fill(g, 0);
         double[] centred = scratch.get();

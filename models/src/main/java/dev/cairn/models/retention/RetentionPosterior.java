@@ -1,6 +1,5 @@
 package dev.cairn.models.retention;
 
-import dev.cairn.models.InputException;
 import dev.cairn.models.data.CohortDays;
 import dev.cairn.samplers.Cancellation;
 import dev.cairn.samplers.ChainRunner;
@@ -228,17 +227,6 @@ public final class RetentionPosterior {
             surv -= p;
         }
         return Math.max(surv, 0);
-    }
-
-    /** The sampler that "auto" and an explicit method name run. */
-    static String method(String requested) {
-        if (requested == null || requested.equals("auto") || requested.equals("nuts")) {
-            return "nuts";
-        }
-        if (requested.equals("slice") || requested.equals("metropolis-within-gibbs")) {
-            return requested;
-        }
-        throw new InputException("/sampler/method: retention has no closed-form posterior; use 'auto' or 'nuts'");
     }
 
     Draws sample(RunSettings settings, Progress progress, Cancellation cancellation) {

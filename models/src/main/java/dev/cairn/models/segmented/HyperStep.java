@@ -142,6 +142,7 @@ final class HyperStep implements Step {
             int[] freeCells = new int[s.segments * arms];
             double[] freeBase = new double[s.segments * arms];
             double[] freeZ = new double[s.segments * arms];
+            double[] effect = new double[s.segments * arms];
             for (int j = 0; j < s.segments; j++) {
                 boolean pinned = effectNoise[j] < split * split;
                 double level = values[j * arms + s.control];
@@ -150,6 +151,7 @@ final class HyperStep implements Step {
                         continue;
                     }
                     double e = values[j * arms + k] - level - x[s.armMean[k]];
+                    effect[j * arms + k] = e;
                     if (pinned) {
                         pinnedSquares += e * e;
                         pinnedCount++;
@@ -177,12 +179,11 @@ final class HyperStep implements Step {
                 boolean pinned = effectNoise[j] < split * split;
                 double level = values[j * arms + s.control];
                 for (int k = 0; k < arms; k++) {
-                    if (k == s.control) {
-                        continue;
+                    if (k != s.control) {
+                        double e = effect[j * arms + k];
+                        double newEffect = pinned ? e : e / tau * newTau;
+                        x[s.effect[j][k]] = s.effectNc[j] ? newEffect / newTau : level + x[s.armMean[k]] + newEffect;
                     }
-                    double e = values[j * arms + k] - level - x[s.armMean[k]];
-                    double newEffect = pinned ? e : e / tau * newTau;
-                    x[s.effect[j][k]] = s.effectNc[j] ? newEffect / newTau : level + x[s.armMean[k]] + newEffect;
                 }
             }
         }

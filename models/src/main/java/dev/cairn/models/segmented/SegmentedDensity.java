@@ -50,11 +50,6 @@ final class SegmentedDensity implements GradientTarget {
     }
 
     @Override
-    public double logDensity(double[] x) {
-        return logDensityAndGradient(x, new double[x.length]);
-    }
-
-    @Override
     public double logDensityAndGradient(double[] x, double[] gradient) {
         return parts(x, gradient, true, cells.spend);
     }

@@ -1,6 +1,5 @@
 package dev.cairn.models.segmented;
 
-import dev.cairn.models.InputException;
 import dev.cairn.models.data.SegmentedSpendData;
 import dev.cairn.samplers.Cancellation;
 import dev.cairn.samplers.ChainRunner;
@@ -31,17 +30,6 @@ final class SegmentedPosterior {
         this.cells = new SegmentedCells(data, controlArm);
         this.layout = SegmentedLayout.of(cells, parameterisation);
         this.density = new SegmentedDensity(cells, layout);
-    }
-
-    /** The sampler that "auto" and an explicit method name run. */
-    static String method(String requested) {
-        if (requested == null || requested.equals("auto") || requested.equals("nuts")) {
-            return "nuts";
-        }
-        if (requested.equals("slice") || requested.equals("metropolis-within-gibbs")) {
-            return requested;
-        }
-        throw new InputException("/sampler/method: segmented-spend has no closed-form posterior; use 'auto' or 'nuts'");
     }
 
     /** Runs the chains; the draws are of the coordinates (see {@link SegmentedOutputs} for named quantities). */
