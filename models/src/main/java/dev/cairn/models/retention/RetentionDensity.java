@@ -12,9 +12,10 @@ import org.apache.commons.math3.special.Gamma;
  *            log p = lgamma(y + a) + lgamma(n - y + b) - lgamma(a) - lgamma(b) + lgamma(kappa) - lgamma(n + kappa)
  *            d/dz = kappa r (1 - r) [(psi(y + a) - psi(a)) - (psi(n - y + b) - psi(b))]
  *            d/d log kappa = kappa [r (psi(y + a) - psi(a)) + (1 - r)(psi(n - y + b) - psi(b)) + psi(kappa) - psi(n + kappa)]
- * survival:  log S(t) = lgamma(beta + t) - lgamma(beta) - lgamma(alpha + beta + t) + lgamma(alpha + beta)
- *            d log S / d alpha = psi(alpha + beta) - psi(alpha + beta + t)
- *            d log S / d beta  = psi(beta + t) - psi(beta) - psi(alpha + beta + t) + psi(alpha + beta)
+ * survival:  log S(t) = sum_{i<t} log((beta + i) / (alpha + beta + i))
+ *                     (= lgamma(beta + t) - lgamma(beta) - lgamma(alpha + beta + t) + lgamma(alpha + beta))
+ *            d log S / d alpha = -sum_{i<t} 1 / (alpha + beta + i)
+ *            d log S / d beta  = sum_{i<t} alpha / ((beta + i)(alpha + beta + i))
  *            log(S(u) - S(v)) = log S(u) + log(1 - w), w = S(v)/S(u): derivative (dlogS(u) - w dlogS(v)) / (1 - w)
  * </pre>
  * (psi the digamma function, commons-math3); the binomial coefficients are constant and dropped. Priors:
@@ -158,38 +159,60 @@ final class RetentionDensity implements GradientTarget {
         return lp;
     }
 
+    /**
+     * One survival cell by the shifted-beta-geometric recursion S(t) = S(t - 1) (beta + t - 1) / (alpha + beta
+     * + t - 1) (Fader &amp; Hardie 2007, eq. 7): the log of each factor, log1p(-alpha / (alpha + beta + i)), and
+     * its derivatives -1 / (alpha + beta + i) and alpha / ((beta + i)(alpha + beta + i)) are summed between
+     * observed days, so that log(S(u) - S(v)) = log S(u) + log(-expm1(seg)) keeps its precision when the
+     * interval's factor w = e^seg is near 1 (tiny alpha) and the cost is a few arithmetic operations per day.
+     */
     private double survival(double[] x, double[] g, int c, int k) {
         double alpha = Math.exp(x[m.level + c] + m.offL(x, k)), beta = Math.exp(x[m.slope + c] + m.offS(x, k));
-        double lgBeta = Gamma.logGamma(beta), lgSum = Gamma.logGamma(alpha + beta);
-        double psiBeta = Gamma.digamma(beta), psiSum = Gamma.digamma(alpha + beta);
-        int[] ds = m.days(c, k);
-        long[] ys = m.active[c][k];
-        double lp = 0, gAlpha = 0, gBeta = 0;
-        double prevLog = 0, prevA = 0, prevB = 0;
-        double previous = m.n[c][k];
-        for (int i = 0; i < ds.length; i++) {
-            double t = ds[i];
-            double psiSumT = Gamma.digamma(alpha + beta + t);
-            double logS = Gamma.logGamma(beta + t) - lgBeta - Gamma.logGamma(alpha + beta + t) + lgSum;
-            double dA = psiSum - psiSumT;
-            double dB = Gamma.digamma(beta + t) - psiBeta - psiSumT + psiSum;
-            double lost = previous - ys[i];
-            if (lost > 0) {
-                double w = Math.exp(logS - prevLog);
-                lp += lost * (prevLog + Math.log1p(-w));
-                gAlpha += lost * (prevA - w * dA) / (1 - w);
-                gBeta += lost * (prevB - w * dB) / (1 - w);
-            }
-            previous = ys[i];
-            prevLog = logS;
-            prevA = dA;
-            prevB = dB;
-        }
-        lp += previous * prevLog;
-        gAlpha += previous * prevA;
-        gBeta += previous * prevB;
-        addCurve(g, c, k, alpha * gAlpha, beta * gBeta);
+        double[] d = new double[2];
+        double lp = survivalCell(alpha, beta, m.days(c, k), m.active[c][k], m.n[c][k], d);
+        addCurve(g, c, k, alpha * d[0], beta * d[1]);
         return lp;
+    }
+
+    /**
+     * One survival cell's log likelihood, with its derivatives with respect to alpha and beta put in d[0] and
+     * d[1]: n users, ys[j] still retained on days ds[j] (ascending), right-censored at the last. By the
+     * shifted-beta-geometric recursion S(t) = S(t - 1) (beta + t - 1) / (alpha + beta + t - 1) (Fader &amp;
+     * Hardie 2007, eq. 7): the log of each factor, log1p(-alpha / (alpha + beta + i)), and its derivatives
+     * -1 / (alpha + beta + i) and alpha / ((beta + i)(alpha + beta + i)) are summed between observed days,
+     * so log(S(u) - S(v)) = log S(u) + log(-expm1(seg)) keeps its precision when the interval's factor
+     * w = e^seg is near 1 (tiny alpha), and a day costs a few arithmetic operations instead of special
+     * functions.
+     */
+    static double survivalCell(double alpha, double beta, int[] ds, long[] ys, double n, double[] d) {
+        double lp = 0, gAlpha = 0, gBeta = 0;
+        double logS = 0, dA = 0, dB = 0;
+        double previous = n;
+        int day = 0;
+        for (int j = 0; j < ds.length; j++) {
+            double seg = 0, segA = 0, segB = 0;
+            for (; day < ds[j]; day++) {
+                double sum = alpha + beta + day;
+                seg += Math.log1p(-alpha / sum);
+                segA -= 1 / sum;
+                segB += alpha / ((beta + day) * sum);
+            }
+            double lost = previous - ys[j];
+            if (lost > 0) {
+                // log(S(u) - S(v)) = log S(u) + log(1 - e^seg); derivative dlogS(u) - dseg e^seg / (1 - e^seg)
+                double ratio = 1 / Math.expm1(-seg);
+                lp += lost * (logS + Math.log(-Math.expm1(seg)));
+                gAlpha += lost * (dA - ratio * segA);
+                gBeta += lost * (dB - ratio * segB);
+            }
+            logS += seg;
+            dA += segA;
+            dB += segB;
+            previous = ys[j];
+        }
+        d[0] = gAlpha + previous * dA;
+        d[1] = gBeta + previous * dB;
+        return lp + previous * logS;
     }
 
     /** Adds the derivatives with respect to the cell's level and slope to the cohort's and the arm's. */
