@@ -42,14 +42,15 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
     }
 
     public static CohortDays read(DataSpec data, Path baseDir, boolean survival) {
-        try (Connection db = Engine.ordered()) { // one thread: rows numbered in file order; retention tables are small
+        DataFile file = data.rows() != null ? null : DataFile.of(data.path(), baseDir, "data.path");
+        try (Connection db = Engine.open(true, file)) { // one thread: rows numbered in file order; tables are small
             String cohortCol = data.column("cohort", "cohort");
             String dayCol = data.column("day", "day");
             String installsCol = data.column("installs", "installs");
             String activeCol = data.column("active", "active");
             java.util.function.Function<String, String> types = c -> c.equals(dayCol) || c.equals(installsCol)
                     || c.equals(activeCol) ? "DOUBLE" : "VARCHAR";
-            Source source = data.rows() != null ? Source.inline(db, data, types) : Source.file(db, data, baseDir, types);
+            Source source = file == null ? Source.inline(db, data, types) : Source.file(db, file, types);
             String cohort = source.require(data, "cohort", "cohort");
             String day = source.require(data, "day", "day");
             String inst = source.require(data, "installs", "installs");

@@ -18,13 +18,14 @@ final class EstimatesReader {
     }
 
     static Estimates read(DataSpec data, Path baseDir) {
-        try (Connection db = Engine.connect()) {
+        DataFile file = data.rows() != null ? null : DataFile.of(data.path(), baseDir, "data.path");
+        try (Connection db = Engine.open(false, file)) {
             String nameCol = data.column("name", "name");
             String estimateCol = data.column("estimate", "estimate");
             String seCol = data.column("se", "se");
             java.util.function.Function<String, String> types =
                     c -> c.equals(estimateCol) || c.equals(seCol) ? "DOUBLE" : "VARCHAR";
-            Source source = data.rows() != null ? Source.inline(db, data, types) : Source.file(db, data, baseDir, types);
+            Source source = file == null ? Source.inline(db, data, types) : Source.file(db, file, types);
             String name = source.require(data, "name", "name");
             String estimate = source.require(data, "estimate", "estimate");
             String se = source.require(data, "se", "se");
@@ -65,7 +66,7 @@ final class EstimatesReader {
                 ys[i] = values.get(i)[0];
                 ses[i] = values.get(i)[1];
             }
-            return new Estimates(names, ys, ses, source.name, query);
+            return new Estimates(names, ys, ses, source.name, source.shown(query));
         } catch (SQLException e) {
             throw new IllegalStateException("embedded SQL engine failed: " + e.getMessage(), e);
         }

@@ -32,43 +32,46 @@ final class Source {
     final List<String> columns;
     final boolean csv;
     final String rowsPointer; // for inline rows: "/data/rows"
+    final DataFile file; // null for inline rows
 
-    private Source(String name, String relation, List<String> columns, boolean csv, String rowsPointer) {
+    private Source(String name, String relation, List<String> columns, boolean csv, String rowsPointer, DataFile file) {
         this.name = name;
         this.relation = relation;
         this.columns = columns;
         this.csv = csv;
         this.rowsPointer = rowsPointer;
+        this.file = file;
     }
 
-    static Source file(Connection db, DataSpec data, Path baseDir, Function<String, String> typeOf) throws SQLException {
-        Path file = baseDir.resolve(data.path()).normalize();
-        String name = data.path();
-        if (!Files.exists(file)) {
-            throw new InputException(name + ": no such file (data.path, resolved to " + file + ")");
-        }
-        if (Files.isDirectory(file)) {
-            throw new InputException(name + ": is a folder, expected a CSV or Parquet file (data.path)");
-        }
-        String lower = file.getFileName().toString().toLowerCase(Locale.ROOT);
-        String quoted = Sql.literal(file.toString());
-        if (lower.endsWith(".parquet") || lower.endsWith(".pq")) {
-            List<String> columns = new ArrayList<>();
+    /** A query text as the result records it: the file as the spec names it, not where it lies on this machine. */
+    String shown(String sql) {
+        return file == null ? sql : file.shown(sql);
+    }
+
+    static Source file(Connection db, DataFile file, Function<String, String> typeOf) throws SQLException {
+        String name = file.written;
+        String quoted = file.literal();
+        if (file.parquet) {
+            Map<String, String> found = new LinkedHashMap<>();
             try (Statement s = db.createStatement();
                  ResultSet r = s.executeQuery("DESCRIBE SELECT * FROM read_parquet(" + quoted + ")")) {
                 while (r.next()) {
-                    columns.add(r.getString(1));
+                    found.put(r.getString(1), r.getString(2));
                 }
             } catch (SQLException e) {
                 throw new InputException(name + ": not a readable Parquet file: "
                         + e.getMessage().lines().findFirst().orElse(""));
             }
-            return new Source(name, "read_parquet(" + quoted + ")", columns, false, null);
+            for (Map.Entry<String, String> e : found.entrySet()) {
+                String wanted = typeOf.apply(e.getKey());
+                if (!fits(wanted, e.getValue())) {
+                    throw new InputException(name + ": column '" + e.getKey() + "' holds " + e.getValue()
+                            + " values; expected " + (wanted.equals("DOUBLE") ? "numbers" : "true/false or 0/1"));
+                }
+            }
+            return new Source(name, "read_parquet(" + quoted + ")", new ArrayList<>(found.keySet()), false, null, file);
         }
-        if (!lower.endsWith(".csv")) {
-            throw new InputException(name + ": data.path must end in .csv or .parquet");
-        }
-        List<String> header = header(file, name);
+        List<String> header = header(file.real, name);
         Map<String, String> types = new LinkedHashMap<>();
         for (String c : header) {
             types.put(c, typeOf.apply(c));
@@ -83,7 +86,19 @@ final class Source {
         cols.append('}');
         String relation = "read_csv(" + quoted + ", auto_detect = false, header = true, delim = ',', quote = '\"', "
                 + "escape = '\"', strict_mode = true, null_padding = false, columns = " + cols + ")";
-        return new Source(name, relation, header, true, null);
+        return new Source(name, relation, header, true, null, file);
+    }
+
+    /** Whether a Parquet column of {@code found} type may be read as {@code wanted} (VARCHAR takes anything). */
+    private static boolean fits(String wanted, String found) {
+        String t = found.toUpperCase(Locale.ROOT);
+        boolean numeric = t.matches("(TINYINT|SMALLINT|INTEGER|BIGINT|HUGEINT|UTINYINT|USMALLINT|UINTEGER|UBIGINT"
+                + "|UHUGEINT|FLOAT|DOUBLE|REAL)") || t.startsWith("DECIMAL");
+        return switch (wanted) {
+            case "DOUBLE" -> numeric;
+            case "BOOLEAN" -> t.equals("BOOLEAN") || numeric;
+            default -> true;
+        };
     }
 
     /** The header line's column names (the engine reads the data; this only names the columns). */
@@ -179,7 +194,7 @@ final class Source {
             }
             insert.executeBatch();
         }
-        return new Source("inline rows", "inline_rows", columns, false, "/data/rows");
+        return new Source("inline rows", "inline_rows", columns, false, "/data/rows", null);
     }
 
     String require(DataSpec data, String logical, String defaultName) {
@@ -240,7 +255,7 @@ final class Source {
                 + ") WHERE " + condition + " ORDER BY position LIMIT " + SHOW_ROWS;
         // Inline rows carry their index; a file's rows are numbered by a one-thread engine so that
         // row_number() follows the file (this path only runs on bad data).
-        try (Connection own = rowsPointer != null ? null : Engine.ordered();
+        try (Connection own = rowsPointer != null ? null : Engine.open(true, file);
              Statement s = (own != null ? own : db).createStatement(); ResultSet r = s.executeQuery(sql)) {
             while (r.next()) {
                 long p = r.getLong(1);

@@ -59,9 +59,10 @@ public final class SpendDataReader {
     }
 
     private static Cells cells(DataSpec data, Path baseDir, boolean strict, boolean segmented) {
-        try (Connection db = Engine.connect()) {
-            Source source = data.rows() != null ? Source.inline(db, data, c -> typeOf(c, data))
-                    : Source.file(db, data, baseDir, c -> typeOf(c, data));
+        DataFile file = data.rows() != null ? null : DataFile.of(data.path(), baseDir, "data.path");
+        try (Connection db = Engine.open(false, file)) {
+            Source source = file == null ? Source.inline(db, data, c -> typeOf(c, data))
+                    : Source.file(db, file, c -> typeOf(c, data));
             String segment = segmented ? source.require(data, SEGMENT, SEGMENT) : null;
             return "summary".equals(data.layout()) ? summary(db, source, data, segment)
                     : users(db, source, data, strict, segment);
@@ -188,7 +189,7 @@ public final class SpendDataReader {
                 warnings.add(message);
             }
         }
-        return new Cells(segments, arms, spend != null, source.name, rows, warnings, query);
+        return new Cells(segments, arms, spend != null, source.name, rows, warnings, source.shown(query));
     }
 
     /**
@@ -343,7 +344,7 @@ public final class SpendDataReader {
         if (rows == 0) {
             throw new InputException(source.name + ": no data rows" + (source.csv ? " after the header" : ""));
         }
-        return new Cells(segments, arms, hasSpend, source.name, rows, List.of(), query);
+        return new Cells(segments, arms, hasSpend, source.name, rows, List.of(), source.shown(query));
     }
 
     // ----------------------------------------------------------------------------------------------------

@@ -95,35 +95,25 @@ final class HistoryPriors {
     }
 
     private static double[][] read(String path, Path baseDir) {
-        DataSpec spec = new DataSpec(path, "summary", Map.of(), null);
-        Path file = baseDir.resolve(spec.path()).normalize();
-        if (!java.nio.file.Files.isRegularFile(file)) {
-            throw new InputException(path + ": no such file (priors.fromHistory.path)");
+        Map<String, String> columns = new java.util.LinkedHashMap<>();
+        for (String c : new String[] {"users", "payers", "log_spend_sum", "log_spend_sq_sum"}) {
+            columns.put(c, "DOUBLE");
         }
-        String lower = file.toString().toLowerCase(java.util.Locale.ROOT);
-        String quoted = "'" + file.toString().replace("'", "''") + "'";
-        String relation = lower.endsWith(".parquet") ? "read_parquet(" + quoted + ")"
-                : "read_csv(" + quoted + ", header = true, delim = ',')";
-        String sql = "SELECT CAST(users AS DOUBLE), CAST(payers AS DOUBLE), CAST(log_spend_sum AS DOUBLE), "
-                + "CAST(log_spend_sq_sum AS DOUBLE) FROM " + relation;
-        List<double[]> rows = new ArrayList<>();
-        try (Connection db = dev.cairn.models.data.Engine.connect();
-             Statement s = db.createStatement(); ResultSet r = s.executeQuery(sql)) {
-            int line = 1;
-            while (r.next()) {
-                line++;
-                double[] row = {r.getDouble(1), r.getDouble(2), r.getDouble(3), r.getDouble(4)};
-                if (r.wasNull() || !(row[0] > 0) || row[1] < 0 || row[1] > row[0]) {
-                    throw new InputException(path + ": line " + line + ": need users > 0 and 0 <= payers <= users, "
-                            + "with log_spend_sum and log_spend_sq_sum");
-                }
-                rows.add(row);
-            }
-        } catch (SQLException e) {
-            throw new InputException(path + ": cannot read the history table (columns users, payers, log_spend_sum, "
-                    + "log_spend_sq_sum): " + e.getMessage().lines().findFirst().orElse(""));
-        }
-        return rows.toArray(new double[0][]);
+        return dev.cairn.models.data.SideTable.read(path, baseDir, "priors.fromHistory.path", columns,
+                relation -> "SELECT users, payers, log_spend_sum, log_spend_sq_sum FROM " + relation, r -> {
+                    List<double[]> rows = new ArrayList<>();
+                    int line = 1;
+                    while (r.next()) {
+                        line++;
+                        double[] row = {r.getDouble(1), r.getDouble(2), r.getDouble(3), r.getDouble(4)};
+                        if (!(row[0] > 0) || row[1] < 0 || row[1] > row[0]) {
+                            throw new InputException(path + ": line " + line
+                                    + ": need users > 0 and 0 <= payers <= users");
+                        }
+                        rows.add(row);
+                    }
+                    return rows.toArray(new double[0][]);
+                });
     }
 
     private static double[] column(double[][] rows, int j) {

@@ -1,9 +1,11 @@
 package dev.cairn.models.data;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.cairn.models.InputException;
 import dev.cairn.models.spec.DataSpec;
 import java.io.IOException;
 import java.nio.file.Files;
@@ -19,14 +21,14 @@ import java.util.concurrent.Future;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
-/** The shared engine keeps connections apart: private temporary tables, and reads on many threads at once. */
+/** Engines are private to their read, may open only the files the spec names, and agree across threads. */
 class EngineTest {
     @TempDir
     Path dir;
 
     @Test
     void temporaryTablesArePrivateToTheirConnection() throws SQLException {
-        try (Connection a = Engine.connect(); Connection b = Engine.connect()) {
+        try (Connection a = Engine.open(false); Connection b = Engine.open(false)) {
             try (Statement s = a.createStatement()) {
                 s.execute("CREATE TEMP TABLE inline_rows (x INTEGER)");
             }
@@ -37,6 +39,57 @@ class EngineTest {
                 s.execute("CREATE TEMP TABLE inline_rows (y VARCHAR)"); // the same name again, no clash
             }
         }
+    }
+
+    /** An engine reads the files it was opened with and nothing else: no other file, no listing, no writing. */
+    @Test
+    void anEngineReadsOnlyTheFilesTheSpecNames() throws Exception {
+        Files.writeString(dir.resolve("named.csv"), "a\n1\n");
+        Files.writeString(dir.resolve("other.csv"), "a\n2\n");
+        DataFile named = DataFile.of("named.csv", dir, "data.path");
+        try (Connection db = Engine.open(false, named)) {
+            try (Statement s = db.createStatement(); java.sql.ResultSet r = s.executeQuery(
+                    "SELECT sum(a) FROM read_csv(" + named.literal() + ")")) {
+                r.next();
+                assertEquals(1, r.getLong(1));
+            }
+            for (String sql : new String[] {
+                "SELECT * FROM read_csv(" + Sql.literal(dir.resolve("other.csv").toString()) + ")",
+                "SELECT * FROM glob(" + Sql.literal(dir + "/*") + ")",
+                "COPY (SELECT 1) TO " + Sql.literal(dir.resolve("out.csv").toString()),
+                "SET enable_external_access = true"}) {
+                try (Statement s = db.createStatement()) {
+                    assertThrows(SQLException.class, () -> s.execute(sql), sql);
+                }
+            }
+        }
+        assertFalse(Files.exists(dir.resolve("out.csv")));
+    }
+
+    /** Paths are literal: "users[1].csv" is that file, not users1.csv; "u*.csv" is refused as missing. */
+    @Test
+    void pathsAreLiteralNotPatterns() throws Exception {
+        Files.writeString(dir.resolve("users[1].csv"), "arm,spend\nA,1\nB,0\n");
+        Files.writeString(dir.resolve("users1.csv"), "arm,spend\nA,5\nA,5\nB,0\nB,0\n");
+        SpendData d = SpendDataReader.read(new DataSpec("users[1].csv", "users", null, null), dir, false);
+        assertEquals(2, d.rows());
+        InputException e = assertThrows(InputException.class,
+                () -> SpendDataReader.read(new DataSpec("u*.csv", "users", null, null), dir, false));
+        assertTrue(e.getMessage().startsWith("u*.csv: no such file"), e.getMessage());
+        assertFalse(d.query().contains(dir.toString()), "the result names the file as the spec does: " + d.query());
+    }
+
+    /** Links are followed to their file; a loop of links and an unreadable file say so. */
+    @Test
+    void linksLoopsAndPermissionsAreNamed() throws Exception {
+        Files.writeString(dir.resolve("real.csv"), "arm,spend\nA,1\nB,0\n");
+        Files.createSymbolicLink(dir.resolve("link.csv"), dir.resolve("real.csv"));
+        assertEquals(dir.resolve("real.csv").toRealPath(), DataFile.of("link.csv", dir, "data.path").real);
+        Files.createSymbolicLink(dir.resolve("loop1.csv"), dir.resolve("loop2.csv"));
+        Files.createSymbolicLink(dir.resolve("loop2.csv"), dir.resolve("loop1.csv"));
+        InputException loop = assertThrows(InputException.class, () -> DataFile.of("loop1.csv", dir, "data.path"));
+        assertTrue(loop.getMessage().contains("loop of symbolic links"), loop.getMessage());
+        assertThrows(InputException.class, () -> DataFile.of("real.txt", dir, "data.path"));
     }
 
     @Test
@@ -66,7 +119,7 @@ class EngineTest {
     /** Engines spill to a temporary folder of the process, never to the working directory. */
     @Test
     void enginesSpillOutsideTheWorkingDirectory() throws SQLException {
-        for (Connection db : new Connection[] {Engine.connect(), Engine.ordered()}) {
+        for (Connection db : new Connection[] {Engine.open(false), Engine.open(true)}) {
             try (db; Statement s = db.createStatement();
                  java.sql.ResultSet r = s.executeQuery("SELECT current_setting('temp_directory')")) {
                 r.next();

@@ -174,7 +174,7 @@ class SpendDataReaderTest {
      */
     @Test
     void theEngineSumsInTheOrderAsked() throws SQLException {
-        try (Connection db = Engine.connect(); Statement s = db.createStatement()) {
+        try (Connection db = Engine.open(false); Statement s = db.createStatement()) {
             s.execute("CREATE TEMP TABLE t AS SELECT 1.0::DOUBLE AS x FROM range(1000) UNION ALL SELECT 1e16::DOUBLE");
             try (java.sql.ResultSet r = s.executeQuery("SELECT sum(x ORDER BY x), sum(x ORDER BY x DESC) FROM t")) {
                 r.next();
