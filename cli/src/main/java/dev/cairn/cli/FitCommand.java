@@ -4,9 +4,9 @@ import dev.cairn.models.Cairn;
 import dev.cairn.models.FitOptions;
 import dev.cairn.models.FitOutcome;
 import dev.cairn.models.InputException;
+import dev.cairn.models.OutputFolder;
 import dev.cairn.models.ResultWriter;
 import java.io.PrintWriter;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.concurrent.Callable;
 import picocli.CommandLine;
@@ -43,28 +43,33 @@ final class FitCommand implements Callable<Integer> {
     public Integer call() {
         PrintWriter stdout = command.commandLine().getOut();
         PrintWriter err = command.commandLine().getErr();
-        if (Files.exists(out) && !Files.isDirectory(out)) {
-            err.println("cairn fit: --out " + out + ": exists and is not a folder");
-            return ExitCodes.BAD_INPUT;
-        }
         if (threads != null && threads < 1) {
             err.println("cairn fit: --threads must be >= 1, was " + threads);
             return ExitCodes.BAD_INPUT;
         }
         FitOutcome outcome;
         dev.cairn.samplers.Progress progress = ProgressBar.forTerminal(quiet, "fitting");
-        try {
-            FitOptions options = (threads == null ? FitOptions.DEFAULT : FitOptions.DEFAULT.withThreads(threads))
-                    .withProgress(progress);
-            outcome = Cairn.fit(spec, options);
+        try (OutputFolder folder = OutputFolder.claim(out)) {
+            try {
+                FitOptions options = (threads == null ? FitOptions.DEFAULT : FitOptions.DEFAULT.withThreads(threads))
+                        .withProgress(progress);
+                outcome = Cairn.fit(spec, options);
+            } finally {
+                ProgressBar.finish(progress);
+            }
+            try {
+                ResultWriter.write(outcome, folder.folder());
+                dev.cairn.cli.report.ReportWriter.write(outcome, spec.getFileName().toString(), folder.folder());
+                folder.commit();
+            } catch (java.io.UncheckedIOException e) {
+                err.println("cairn fit: cannot write the results into --out " + out + " ("
+                        + Messages.ioReason(e.getCause()) + "); the previous results there are unchanged");
+                return ExitCodes.BAD_INPUT;
+            }
         } catch (InputException e) {
             err.println("cairn fit: " + e.getMessage());
             return ExitCodes.BAD_INPUT;
-        } finally {
-            ProgressBar.finish(progress);
         }
-        ResultWriter.write(outcome, out);
-        dev.cairn.cli.report.ReportWriter.write(outcome, spec.getFileName().toString(), out);
         if (!quiet) {
             stdout.print(ResultPrinter.print(outcome.result()));
             stdout.println("\nWrote " + out.resolve(ResultWriter.RESULT) + ", " + out.resolve(ResultWriter.DRAWS) + " and "

@@ -24,7 +24,14 @@ public final class Main implements Runnable {
 
     public static void main(String[] args) {
         System.setProperty("java.awt.headless", "true"); // charts are drawn to SVG, never to a screen
-        System.exit(run(args));
+        int code;
+        try {
+            code = run(args);
+        } catch (OutOfMemoryError e) { // thrown outside a command, e.g. while parsing a huge argument
+            System.err.println("cairn: " + Messages.outOfMemory());
+            code = ExitCodes.BAD_INPUT;
+        }
+        System.exit(code);
     }
 
     /** Runs the command line and returns its exit code (0 ok, 1 internal error, 2 bad input, 3 not converged). */
@@ -35,6 +42,23 @@ public final class Main implements Runnable {
     static CommandLine commandLine() {
         CommandLine cl = new CommandLine(new Main());
         cl.setExecutionExceptionHandler((ex, line, parsed) -> {
+            // The user's input or machine (memory, files, disk): one line and exit 2; anything else is a bug.
+            Throwable cause = ex;
+            while (cause != null) {
+                if (cause instanceof OutOfMemoryError) {
+                    line.getErr().println("cairn: " + Messages.outOfMemory());
+                    return ExitCodes.BAD_INPUT;
+                }
+                if (cause instanceof dev.cairn.models.InputException || cause instanceof BadInput) {
+                    line.getErr().println("cairn: " + cause.getMessage());
+                    return ExitCodes.BAD_INPUT;
+                }
+                if (cause instanceof java.io.IOException io) {
+                    line.getErr().println("cairn: cannot read or write a file: " + Messages.ioReason(io));
+                    return ExitCodes.BAD_INPUT;
+                }
+                cause = cause.getCause();
+            }
             line.getErr().println("cairn: internal error: " + ex);
             return ExitCodes.INTERNAL_ERROR;
         });

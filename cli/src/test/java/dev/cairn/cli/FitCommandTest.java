@@ -85,6 +85,28 @@ class FitCommandTest {
         assertEquals(1, r[2].strip().lines().count(), r[2]);
         assertTrue(r[2].contains(Files.readString(caseDir.resolve("expected.txt")).strip()), r[2]);
         assertFalse(Files.exists(out), "nothing written");
+        try (Stream<Path> s = Files.list(dir)) {
+            assertEquals(0, s.filter(p -> p.getFileName().toString().startsWith(".never")).count(), "no claim left");
+        }
+    }
+
+    /** A refused refit leaves the previous results whole; a folder with the user's own files is not taken. */
+    @Test
+    void previousResultsSurviveARefusedRunAndForeignFoldersAreNotTaken() throws IOException {
+        Path out = dir.resolve("out");
+        assertEquals("0", MainTest.run("fit", spec("{\"method\": \"slice\", \"seed\": 3}").toString(), "--out", out.toString())[0]);
+        String before = Files.readString(out.resolve("result.json"));
+        Path bad = Path.of("..", "fixtures", "bad", "negative-spend", "spec.json");
+        assertEquals("2", MainTest.run("fit", bad.toString(), "--out", out.toString())[0]);
+        assertEquals(before, Files.readString(out.resolve("result.json")));
+        assertTrue(Files.exists(out.resolve("draws.csv")) && Files.exists(out.resolve("report.html")));
+        Path mine = dir.resolve("mine");
+        Files.createDirectories(mine);
+        Files.writeString(mine.resolve("notes.txt"), "mine");
+        String[] r = MainTest.run("fit", spec("{\"method\": \"slice\", \"seed\": 3}").toString(), "--out", mine.toString());
+        assertEquals("2", r[0]);
+        assertTrue(r[2].contains("holds files cairn did not write (notes.txt)"), r[2]);
+        assertFalse(Files.exists(mine.resolve("result.json")));
     }
 
     @Test
