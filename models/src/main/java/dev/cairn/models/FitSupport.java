@@ -90,6 +90,31 @@ public final class FitSupport {
     }
 
     /** The warning put first in a result that did not converge. */
+    /** Beyond it a draw's square, and so the posterior sd, overflows. */
+    private static final double LARGEST_DRAW = 1e150;
+
+    /**
+     * Refuses draws that hold a non-finite value or one beyond 1e150 (whose square overflows): a quantity the model cannot represent in floating point
+     * for these data and priors (an overflowing exp, say) ends the fit with one line, never in the result.
+     *
+     * @param draws the draws, with derived quantities
+     * @param hint  what the user can do about it
+     * @throws InputException naming the first such quantity
+     */
+    public static void requireFinite(Draws draws, String hint) {
+        for (String name : draws.names()) {
+            double[][] column = draws.column(name);
+            for (int c = 0; c < column.length; c++) {
+                for (int t = 0; t < column[c].length; t++) {
+                    if (!(Math.abs(column[c][t]) <= LARGEST_DRAW)) {
+                        throw new InputException(name + (Double.isFinite(column[c][t]) ? " exceeds 1e150" : " is not finite")
+                                + " in chain " + (c + 1) + ", draw " + (t + 1) + ": " + hint);
+                    }
+                }
+            }
+        }
+    }
+
     public static String notConverged(DiagnosticsReport report) {
         return "NOT converged: " + String.join("; ", report.reasons())
                 + ". Do not use these numbers for decisions; run longer or change the sampler.";

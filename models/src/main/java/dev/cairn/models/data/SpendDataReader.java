@@ -102,6 +102,7 @@ public final class SpendDataReader {
             rows = 0;
             boolean untrimmed = false;
             long missing = 0, emptyArms = 0, negative = 0;
+            boolean outOfRange = false;
             boolean notFinite = false;
             try (Statement s = db.createStatement(); ResultSet r = s.executeQuery(query)) {
                 while (r.next()) {
@@ -131,6 +132,8 @@ public final class SpendDataReader {
                         notFinite |= r.getLong("present") > 0 && (!Double.isFinite(sum) || !Double.isFinite(max)
                                 || !Double.isFinite(min));
                         negative += min < 0 ? 1 : 0;
+                        double payerMin = orNaN(r, "payer_min");
+                        outOfRange |= payerMin < SMALLEST_SPEND || max > LARGEST_SPEND;
                         arms.add(new ArmStats(name, users, r.getLong("payers"), r.getDouble("log_spend_sum"),
                                 r.getDouble("log_spend_sq_sum"), sum, orNaN(r, "payer_p50"), orNaN(r, "payer_p90"),
                                 orNaN(r, "payer_p99"), max));
@@ -167,6 +170,12 @@ public final class SpendDataReader {
                 throw source.bad(db, cast + " < 0", valueColumn, count(db, source, cast + " < 0"),
                         "spend must be >= 0 (0 for users who did not pay)");
             }
+            if (outOfRange) {
+                String outside = cast + " > 0 AND (" + cast + " < " + SMALLEST_SPEND + " OR " + cast + " > " + LARGEST_SPEND + ")";
+                throw source.bad(db, outside, valueColumn, count(db, source, outside), "a positive spend must lie between "
+                        + SMALLEST_SPEND + " and " + LARGEST_SPEND + " (the model works with log spend and its square; "
+                        + "rescale the currency unit)");
+            }
             if (!untrimmed) {
                 break;
             }
@@ -191,6 +200,12 @@ public final class SpendDataReader {
         }
         return new Cells(segments, arms, spend != null, source.name, rows, warnings, source.shown(query));
     }
+
+    /**
+     * The range of a positive spend the model represents: far beyond any currency amount, while log spend,
+     * its square and the ARPPU of the fitted log-normal stay well inside floating point.
+     */
+    static final double SMALLEST_SPEND = 1e-12, LARGEST_SPEND = 1e15;
 
     /**
      * The users-layout query: one scan, per arm (per segment and arm when a segment expression is given).
@@ -220,6 +235,7 @@ public final class SpendDataReader {
                             ELSE nonzero[1] END AS spend_min,
                        CASE WHEN present > coalesce(len(nonzero), 0) THEN greatest(coalesce(nonzero[-1], 0), 0)
                             ELSE nonzero[-1] END AS spend_max,
+                       paid[1] AS payer_min,
                        paid[CAST(floor(0.5 * (len(paid) - 1)) AS BIGINT) + 1] AS payer_p50,
                        paid[CAST(floor(0.9 * (len(paid) - 1)) AS BIGINT) + 1] AS payer_p90,
                        paid[CAST(floor(0.99 * (len(paid) - 1)) AS BIGINT) + 1] AS payer_p99

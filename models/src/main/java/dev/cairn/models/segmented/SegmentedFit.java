@@ -55,6 +55,8 @@ public final class SegmentedFit {
             weights[j] /= total;
         }
         Draws draws = model.outputs(internal, weights);
+        FitSupport.requireFinite(draws, "spend per payer overflows for these data and priors; check the spend "
+                + "values (log-spend sums) or give tighter priors");
         DiagnosticsReport report = FitSupport.diagnose(draws, spec);
         double level = spec.interval();
         List<String> metrics = data.hasSpend() ? List.of("arpu", "payerRate", "arppu") : List.of("payerRate");

@@ -36,6 +36,15 @@ public final class SpendFit {
                 ? HistoryPriors.fit(spec.priorsOrEmpty().fromHistory().path(), baseDir)
                 : SpendPriors.fromSpec(spec.priorsOrEmpty());
 
+        if (data.hasSpend() && "default".equals(priors.source())) {
+            for (ArmStats a : data.arms()) {
+                if (a.payers() == 0) {
+                    throw new InputException("arm " + a.arm() + " has no payers: under the default spend prior, which "
+                            + "is deliberately vague, what its payers would spend (and so its ARPU) is unbounded; "
+                            + "give priors.logSpendMean and priors.logSpendSd, priors.logSpend or priors.fromHistory");
+                }
+            }
+        }
         SamplerSpec s = spec.samplerOrDefault();
         String method = method(s.method(), priors, data);
         RunSettings settings = FitSupport.runSettings(spec, options, method.equals("exact"));
@@ -45,6 +54,8 @@ public final class SpendFit {
                 : SpendPosterior.mcmc(data, priors, method.equals("slice"), settings, options.progress(),
                         options.cancellation());
         draws = SpendAnalysis.withDerived(draws, data);
+        FitSupport.requireFinite(draws, "the spend prior is too wide for the data (spend per payer overflows); give "
+                + "tighter priors.logSpendMean and priors.logSpendSd, or check the spend values");
 
         DiagnosticsReport report = FitSupport.diagnose(draws, spec);
 
