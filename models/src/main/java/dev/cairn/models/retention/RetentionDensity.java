@@ -159,13 +159,7 @@ final class RetentionDensity implements GradientTarget {
         return lp;
     }
 
-    /**
-     * One survival cell by the shifted-beta-geometric recursion S(t) = S(t - 1) (beta + t - 1) / (alpha + beta
-     * + t - 1) (Fader &amp; Hardie 2007, eq. 7): the log of each factor, log1p(-alpha / (alpha + beta + i)), and
-     * its derivatives -1 / (alpha + beta + i) and alpha / ((beta + i)(alpha + beta + i)) are summed between
-     * observed days, so that log(S(u) - S(v)) = log S(u) + log(-expm1(seg)) keeps its precision when the
-     * interval's factor w = e^seg is near 1 (tiny alpha) and the cost is a few arithmetic operations per day.
-     */
+    /** One survival cell ({@link #survivalCell}) on the log scale of alpha and beta. */
     private double survival(double[] x, double[] g, int c, int k) {
         double alpha = Math.exp(x[m.level + c] + m.offL(x, k)), beta = Math.exp(x[m.slope + c] + m.offS(x, k));
         double[] d = new double[2];
@@ -178,7 +172,7 @@ final class RetentionDensity implements GradientTarget {
      * One survival cell's log likelihood, with its derivatives with respect to alpha and beta put in d[0] and
      * d[1]: n users, ys[j] still retained on days ds[j] (ascending), right-censored at the last. By the
      * shifted-beta-geometric recursion S(t) = S(t - 1) (beta + t - 1) / (alpha + beta + t - 1) (Fader &amp;
-     * Hardie 2007, eq. 7): the log of each factor, log1p(-alpha / (alpha + beta + i)), and its derivatives
+     * Hardie 2007; equation number from memory, not checked): the log of each factor, log1p(-alpha / (alpha + beta + i)), and its derivatives
      * -1 / (alpha + beta + i) and alpha / ((beta + i)(alpha + beta + i)) are summed between observed days,
      * so log(S(u) - S(v)) = log S(u) + log(-expm1(seg)) keeps its precision when the interval's factor
      * w = e^seg is near 1 (tiny alpha), and a day costs a few arithmetic operations instead of special

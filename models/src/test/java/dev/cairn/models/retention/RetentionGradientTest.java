@@ -36,7 +36,7 @@ class RetentionGradientTest {
 
     /**
      * The survival cell's log likelihood equals the shifted-beta-geometric model's definition (Fader &amp;
-     * Hardie 2007, eqs. 6-7: S(t) = prod_{i<t} (beta + i) / (alpha + beta + i), P(churn in (u, v]) =
+     * Hardie 2007; equation numbers from memory, not checked: S(t) = prod_{i<t} (beta + i) / (alpha + beta + i), P(churn in (u, v]) =
      * S(u) - S(v)) evaluated in 50-digit decimal arithmetic, and its derivatives equal central differences
      * of that reference, from alpha, beta = 1e-3 to 1e3 (where a log-Gamma difference would lose digits).
      */
