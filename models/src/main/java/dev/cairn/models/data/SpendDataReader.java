@@ -2,6 +2,7 @@ package dev.cairn.models.data;
 
 import dev.cairn.models.InputException;
 import dev.cairn.models.spec.DataSpec;
+import dev.cairn.models.spec.SpecReader;
 import java.nio.file.Path;
 import java.sql.Connection;
 import java.sql.ResultSet;
@@ -91,6 +92,7 @@ public final class SpendDataReader {
         List<ArmStats> arms = null;
         String query = null;
         long rows = 0;
+        long blanks = 0;
         for (boolean trim : new boolean[] {false, true}) {
             String armExpr = trim ? "trim(CAST(" + Sql.identifier(arm) + " AS VARCHAR))"
                     : "CAST(" + Sql.identifier(arm) + " AS VARCHAR)";
@@ -158,9 +160,11 @@ public final class SpendDataReader {
                 throw source.bad(db, segmentExpr + " IS NULL OR " + segmentExpr + " = ''", segment, emptySegments,
                         "segment is empty");
             }
-            if (missing > 0) {
-                throw source.bad(db, cast + " IS NULL", valueColumn, missing, "value is empty");
+            if (missing > 0 && !(spend != null && data.blankSpendIsZero())) {
+                throw source.bad(db, cast + " IS NULL", valueColumn, missing, spend == null ? "value is empty"
+                        : "spend is empty (if a blank means the user did not pay, set data.missingSpend to \"zero\")");
             }
+            blanks = missing;
             if (notFinite) {
                 throw source.bad(db, "isnan(" + cast + ") OR isinf(" + cast + ")", valueColumn,
                         count(db, source, "isnan(" + cast + ") OR isinf(" + cast + ")"),
@@ -181,6 +185,12 @@ public final class SpendDataReader {
             }
         }
         List<String> warnings = new ArrayList<>();
+        if (spend == null) {
+            warnings.add(conversionOnly(source.name + " has no spend column ('" + data.column(SPEND, SPEND) + "')"));
+        } else if (blanks > 0) {
+            warnings.add(source.name + ", column '" + spend + "': " + blanks + " blank spend cell"
+                    + (blanks == 1 ? "" : "s") + " read as 0 (data.missingSpend is \"zero\")");
+        }
         String user = source.optionalMapped(data, "user");
         if (user != null) {
             long duplicates;
@@ -295,6 +305,7 @@ public final class SpendDataReader {
         String arm = source.require(data, ARM, ARM);
         String users = source.require(data, USERS, USERS);
         String payers = source.require(data, PAYERS, PAYERS);
+        refuseOtherColumns(source, data, segment);
         String s1 = source.optional(data, "logSpendSum", LOG_SUM);
         String s2 = source.optional(data, "logSpendSqSum", LOG_SQ_SUM);
         if ((s1 == null) != (s2 == null)) {
@@ -360,7 +371,36 @@ public final class SpendDataReader {
         if (rows == 0) {
             throw new InputException(source.name + ": no data rows" + (source.csv ? " after the header" : ""));
         }
-        return new Cells(segments, arms, hasSpend, source.name, rows, List.of(), source.shown(query));
+        List<String> warnings = hasSpend ? List.of() : List.of(conversionOnly(source.name + " has no log-spend sums ('"
+                + data.column("logSpendSum", LOG_SUM) + "', '" + data.column("logSpendSqSum", LOG_SQ_SUM) + "')"));
+        return new Cells(segments, arms, hasSpend, source.name, rows, warnings, source.shown(query));
+    }
+
+    /**
+     * A summary table holds statistics only, so a column the layout does not read is most likely one it
+     * should have read under another name ({@code revenue_sum} for {@code log_spend_sum}): refused with the
+     * nearest expected name rather than fitted without it.
+     */
+    private static void refuseOtherColumns(Source source, DataSpec data, String segment) {
+        List<String> expected = new ArrayList<>(List.of(data.column(ARM, ARM), data.column(USERS, USERS),
+                data.column(PAYERS, PAYERS), data.column("logSpendSum", LOG_SUM), data.column("logSpendSqSum", LOG_SQ_SUM)));
+        if (segment != null) {
+            expected.add(segment);
+        }
+        List<String> absent = expected.stream().filter(e -> !source.columns.contains(e)).toList();
+        for (String c : source.columns) {
+            if (!expected.contains(c)) {
+                String near = SpecReader.nearest(c, absent);
+                throw new InputException(source.name + ": column '" + c + "' is not one the summary layout reads"
+                        + (near == null ? "" : " (did you mean '" + near + "'?)") + "; expected "
+                        + String.join(", ", expected) + " (rename the column, map it in data.columns, or remove it)");
+            }
+        }
+    }
+
+    /** The warning of a fit without spend: what it estimates and what it leaves out. */
+    private static String conversionOnly(String why) {
+        return why + ": a conversion-only fit — payer rate alone; ARPU and ARPPU are not estimated";
     }
 
     // ----------------------------------------------------------------------------------------------------

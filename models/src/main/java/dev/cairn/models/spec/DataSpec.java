@@ -2,12 +2,39 @@ package dev.cairn.models.spec;
 
 import com.fasterxml.jackson.annotation.JsonInclude;
 import com.fasterxml.jackson.databind.JsonNode;
+import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 
-/** Where the data are and how to read them: a file ({@code path}) or inline {@code rows}. */
+/**
+ * Where the data are and how to read them: a file ({@code path}) or inline {@code rows}.
+ *
+ * <p>The summary layout's two log-spend columns may be mapped under their column names as well
+ * ({@code log_spend_sum}, {@code log_spend_sq_sum}); the record holds them under the logical names
+ * {@code logSpendSum} and {@code logSpendSqSum}, so the readers see one spelling.
+ *
+ * @param missingSpend {@code "zero"} reads a blank spend cell (users layout) as no purchase; {@code null} or
+ *                     {@code "refuse"} refuses it
+ */
 @JsonInclude(JsonInclude.Include.NON_NULL)
-public record DataSpec(String path, String layout, Map<String, String> columns, List<JsonNode> rows) {
+public record DataSpec(String path, String layout, Map<String, String> columns, List<JsonNode> rows,
+                       String missingSpend) {
+
+    /** Column keys that may also be written as the column names they default to. */
+    static final Map<String, String> ALIASES = Map.of("log_spend_sum", "logSpendSum",
+            "log_spend_sq_sum", "logSpendSqSum");
+
+    public DataSpec {
+        if (columns != null && columns.keySet().stream().anyMatch(ALIASES::containsKey)) {
+            Map<String, String> canonical = new LinkedHashMap<>();
+            columns.forEach((k, v) -> canonical.put(ALIASES.getOrDefault(k, k), v));
+            columns = Map.copyOf(canonical);
+        }
+    }
+
+    public DataSpec(String path, String layout, Map<String, String> columns, List<JsonNode> rows) {
+        this(path, layout, columns, rows, null);
+    }
 
     /** The data column for a logical column, {@code columns.<name>} or the default name. */
     public String column(String logical, String defaultName) {
@@ -19,5 +46,10 @@ public record DataSpec(String path, String layout, Map<String, String> columns, 
 
     public boolean mapped(String logical) {
         return columns != null && columns.containsKey(logical);
+    }
+
+    /** Whether a blank spend cell is read as 0 ({@code data.missingSpend: "zero"}). */
+    public boolean blankSpendIsZero() {
+        return "zero".equals(missingSpend);
     }
 }

@@ -84,6 +84,13 @@ public final class SpecReader {
                     .orElseThrow();
             throw new InputException(origin + ": " + describe(first));
         }
+        JsonNode columns = tree.path("data").path("columns");
+        DataSpec.ALIASES.forEach((alias, key) -> {
+            if (columns.has(alias) && columns.has(key)) {
+                throw new InputException(origin + ": /data/columns: '" + alias + "' and '" + key
+                        + "' name the same column; give one");
+            }
+        });
         Spec spec;
         try {
             spec = MAPPER.treeToValue(tree, Spec.class);
@@ -135,18 +142,28 @@ public final class SpecReader {
         return message.startsWith(prefix) ? message.substring(prefix.length()) : message;
     }
 
-    /** The known key nearest to {@code key} in edit distance, when near enough to be a likely typo. */
-    static String closest(String key, List<String> known) {
+    /** The known name nearest to {@code key} in edit distance, when near enough to be a likely typo; else null. */
+    public static String closest(String key, List<String> known) {
+        String best = nearest(key, known);
+        return best != null && distance(key, best) <= Math.max(2, best.length() / 3) ? best : null;
+    }
+
+    /** The known name nearest to {@code key} in edit distance (case ignored), however far; null if none. */
+    public static String nearest(String key, List<String> known) {
         String best = null;
         int bestDistance = Integer.MAX_VALUE;
         for (String k : known) {
-            int d = editDistance(key.toLowerCase(Locale.ROOT), k.toLowerCase(Locale.ROOT));
+            int d = distance(key, k);
             if (d < bestDistance) {
                 bestDistance = d;
                 best = k;
             }
         }
-        return best != null && bestDistance <= Math.max(2, best.length() / 3) ? best : null;
+        return best;
+    }
+
+    private static int distance(String a, String b) {
+        return editDistance(a.toLowerCase(Locale.ROOT), b.toLowerCase(Locale.ROOT));
     }
 
     /** Levenshtein distance (insertions, deletions, substitutions), two-row dynamic programme. */
@@ -237,6 +254,10 @@ public final class SpecReader {
         if ((long) s.warmup() + (long) s.draws() * s.thin() > 10_000_000L) {
             throw new InputException(origin + ": /sampler: warmup + draws x thin = "
                     + ((long) s.warmup() + (long) s.draws() * s.thin()) + " iterations per chain is more than 10000000");
+        }
+        if (spec.data().missingSpend() != null && !"users".equals(spec.data().layout())) {
+            throw new InputException(origin + ": /data/missingSpend: applies to the 'users' layout only (a "
+                    + "spend cell per user), not '" + spec.data().layout() + "'");
         }
         if (spec.data().path() != null && spec.data().rows() != null) {
             throw new InputException(origin + ": /data: give exactly one of 'path' and 'rows'");

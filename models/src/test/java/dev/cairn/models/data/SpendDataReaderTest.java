@@ -202,4 +202,58 @@ class SpendDataReaderTest {
         assertEquals(2, b.payerP90(), 0, "k = floor(0.9 * 2) + 1 = 2nd");
         assertEquals(Math.log(6), b.logSpendSum(), 1e-15);
     }
+
+    /** With data.missingSpend "zero" a blank spend is a non-payer: the same statistics as writing 0, and said. */
+    @Test
+    void blankSpendReadAsZeroWhenAskedAndSaid() throws IOException {
+        Files.writeString(dir.resolve("blank.csv"), "arm,spend\nA,\nA,4\nB,\nB,\nB,2\n");
+        Files.writeString(dir.resolve("zero.csv"), "arm,spend\nA,0\nA,4\nB,0\nB,0\nB,2\n");
+        InputException refused = assertThrows(InputException.class,
+                () -> SpendDataReader.read(new DataSpec("blank.csv", "users", null, null), dir, false));
+        assertTrue(refused.getMessage().contains("lines 2, 4, 5, column 'spend': spend is empty (if a blank "
+                + "means the user did not pay, set data.missingSpend to \"zero\")"), refused.getMessage());
+        SpendData blank = SpendDataReader.read(new DataSpec("blank.csv", "users", null, null, "zero"), dir, false);
+        SpendData zero = SpendDataReader.read(new DataSpec("zero.csv", "users", null, null), dir, false);
+        assertEquals(zero.arms(), blank.arms());
+        assertEquals(List.of("blank.csv, column 'spend': 3 blank spend cells read as 0 (data.missingSpend is \"zero\")"),
+                blank.warnings());
+        assertEquals(List.of(), zero.warnings());
+    }
+
+    /** A fit without spend says what it leaves out, for both layouts. */
+    @Test
+    void conversionOnlyDataAreSaidToBeSo() throws IOException {
+        Files.writeString(dir.resolve("c.csv"), "arm,converted\nA,1\nA,0\nB,0\n");
+        Files.writeString(dir.resolve("s.csv"), "arm,users,payers\nA,10,2\nB,10,3\n");
+        String users = SpendDataReader.read(new DataSpec("c.csv", "users", null, null), dir, false).warnings().get(0);
+        String summary = SpendDataReader.read(new DataSpec("s.csv", "summary", null, null), dir, false).warnings().get(0);
+        assertEquals("c.csv has no spend column ('spend'): a conversion-only fit — payer rate alone; ARPU and ARPPU "
+                + "are not estimated", users);
+        assertTrue(summary.startsWith("s.csv has no log-spend sums ('log_spend_sum', 'log_spend_sq_sum'): a "
+                + "conversion-only fit"), summary);
+    }
+
+    /** A misnamed statistics column is refused, naming the expected column it most likely is. */
+    @Test
+    void summaryColumnsTheLayoutDoesNotReadAreRefusedWithTheNearestName() throws IOException {
+        Files.writeString(dir.resolve("s.csv"), "arm,users,payers,revenue_sum,log_spend_sq_sum\nA,10,2,1,1\nB,10,3,1,1\n");
+        InputException e = assertThrows(InputException.class,
+                () -> SpendDataReader.read(new DataSpec("s.csv", "summary", null, null), dir, false));
+        assertEquals("s.csv: column 'revenue_sum' is not one the summary layout reads (did you mean 'log_spend_sum'?); "
+                + "expected arm, users, payers, log_spend_sum, log_spend_sq_sum (rename the column, map it in "
+                + "data.columns, or remove it)", e.getMessage());
+    }
+
+    /** Summary mapping keys may be written as the README's column names or as the logical names. */
+    @Test
+    void summaryMappingKeysAcceptTheColumnNames() throws IOException {
+        Files.writeString(dir.resolve("s.csv"), "arm,users,payers,s1,s2\nA,10,2,1.5,2.5\nB,10,3,2,3\n");
+        SpendData snake = SpendDataReader.read(new DataSpec("s.csv", "summary",
+                Map.of("log_spend_sum", "s1", "log_spend_sq_sum", "s2"), null), dir, false);
+        SpendData camel = SpendDataReader.read(new DataSpec("s.csv", "summary",
+                Map.of("logSpendSum", "s1", "logSpendSqSum", "s2"), null), dir, false);
+        assertTrue(snake.hasSpend());
+        assertEquals(camel.arms(), snake.arms());
+        assertEquals(1.5, snake.arm("A").logSpendSum(), 0);
+    }
 }
