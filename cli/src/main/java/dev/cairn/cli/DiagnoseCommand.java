@@ -8,12 +8,13 @@ import dev.cairn.diagnostics.Diagnostics;
 import dev.cairn.diagnostics.DiagnosticsReport;
 import dev.cairn.diagnostics.ParameterDiagnostics;
 import dev.cairn.diagnostics.Thresholds;
-import dev.cairn.samplers.Draws;
 import dev.cairn.samplers.DrawsCsv;
+import dev.cairn.samplers.DrawsFile;
 import java.io.IOException;
 import java.io.PrintWriter;
 import java.io.Reader;
-import java.nio.charset.MalformedInputException;
+import java.io.UncheckedIOException;
+import java.nio.charset.CharacterCodingException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.NoSuchFileException;
@@ -60,19 +61,14 @@ final class DiagnoseCommand implements Callable<Integer> {
         PrintWriter err = spec.commandLine().getErr();
         try {
             Thresholds thresholds = thresholds();
-            Draws draws = read(file);
-            List<double[][]> columns = new ArrayList<>();
-            for (String name : draws.names()) {
-                columns.add(draws.column(name));
-            }
-            DiagnosticsReport report = Diagnostics.of(draws.names(), columns, thresholds);
+            Diagnosed d = diagnose(file, thresholds);
             if (json) {
-                out.println(toJson(report, draws));
+                out.println(toJson(d.report, d.chains, d.draws));
             } else {
-                out.print(table(report, draws, file));
+                out.print(table(d.report, d.chains, d.draws, file));
             }
             out.flush();
-            return report.converged() ? ExitCodes.OK : ExitCodes.NOT_CONVERGED;
+            return d.report.converged() ? ExitCodes.OK : ExitCodes.NOT_CONVERGED;
         } catch (BadInput e) {
             err.println("cairn diagnose: " + e.getMessage());
             return ExitCodes.BAD_INPUT;
@@ -87,30 +83,75 @@ final class DiagnoseCommand implements Callable<Integer> {
         }
     }
 
-    static Draws read(Path file) {
+    /** A file's diagnostics with its shape. */
+    record Diagnosed(DiagnosticsReport report, int chains, int draws) {
+    }
+
+    /**
+     * Working memory of one parameter's diagnostics, in multiples of its draws: the pooled and split copies,
+     * the sort order, the rank-normal and folded values and the autocovariance buffers (an upper estimate).
+     */
+    static final int WORKING_COPIES = 12;
+
+    /**
+     * Diagnoses a draws file without holding it: one pass checks the text and spills the values in binary
+     * to the temporary folder ({@code java.io.tmpdir}); then blocks of parameters, as many as half the free
+     * heap holds with their working memory, are read back and diagnosed in turn.
+     */
+    static Diagnosed diagnose(Path file, Thresholds thresholds) {
+        Runtime rt = Runtime.getRuntime();
+        return diagnose(file, thresholds, (rt.maxMemory() - (rt.totalMemory() - rt.freeMemory())) / 2);
+    }
+
+    /** {@link #diagnose(Path, Thresholds)} within {@code budget} bytes of heap for draws and working memory. */
+    static Diagnosed diagnose(Path file, Thresholds thresholds, long budget) {
         if (Files.isDirectory(file)) {
             throw new BadInput(file + ": is a folder, expected a draws CSV file");
         }
-        try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
-            return DrawsCsv.read(r);
+        try (Reader r = new java.io.InputStreamReader(Files.newInputStream(file), StandardCharsets.UTF_8.newDecoder());
+             DrawsFile draws = DrawsFile.read(r, Path.of(System.getProperty("java.io.tmpdir")))) {
+            long column = draws.bytesPerColumn();
+            int threads = Math.max(1, Math.min(Runtime.getRuntime().availableProcessors(), (int) Math.min(Integer.MAX_VALUE,
+                    budget / ((WORKING_COPIES + 1) * column))));
+            long left = budget - (long) threads * WORKING_COPIES * column;
+            if (left < column) {
+                throw new BadInput(file + ": each parameter has " + draws.chains() * (long) draws.draws()
+                        + " draws (" + megabytes(column) + " MB); diagnosing one needs about "
+                        + megabytes((WORKING_COPIES + 1) * column * 2) + " MB of heap, more than this run has; "
+                        + "raise it with CAIRN_JAVA_OPTS=-Xmx...");
+            }
+            int perBlock = (int) Math.max(1, Math.min(Integer.MAX_VALUE, left / column));
+            List<ParameterDiagnostics> all = new ArrayList<>(draws.names().size());
+            draws.columns(perBlock, (names, columns) -> {
+                ParameterDiagnostics[] out = new ParameterDiagnostics[names.size()];
+                java.util.stream.IntStream range = java.util.stream.IntStream.range(0, out.length);
+                (threads > 1 ? range.parallel() : range).forEach(i -> out[i] = Diagnostics.of(names.get(i), columns.get(i)));
+                all.addAll(List.of(out));
+            });
+            return new Diagnosed(DiagnosticsReport.of(all, thresholds), draws.chains(), draws.draws());
         } catch (NoSuchFileException e) {
             throw new BadInput(file + ": no such file");
-        } catch (MalformedInputException e) {
-            throw new BadInput(file + ": not UTF-8 text");
         } catch (DrawsCsv.FormatException e) {
             throw new BadInput(file + ": " + e.getMessage());
+        } catch (CharacterCodingException e) {
+            throw new BadInput(file + ": not UTF-8 text");
         } catch (IOException e) {
-            throw new BadInput(file + ": cannot be read (" + e.getMessage() + ")");
-        } catch (java.io.UncheckedIOException e) {
-            if (e.getCause() instanceof MalformedInputException) {
+            throw new BadInput(file + ": cannot be read, or its values not spilled to the temporary folder "
+                    + System.getProperty("java.io.tmpdir") + " (" + Messages.ioReason(e) + ")");
+        } catch (UncheckedIOException e) {
+            if (e.getCause() instanceof CharacterCodingException) {
                 throw new BadInput(file + ": not UTF-8 text");
             }
-            throw new BadInput(file + ": cannot be read (" + e.getCause().getMessage() + ")");
+            throw new BadInput(file + ": cannot be read (" + Messages.ioReason(e.getCause()) + ")");
         }
     }
 
+    private static long megabytes(long bytes) {
+        return (bytes + (1 << 20) - 1) >> 20;
+    }
+
     /** The contract's JSON form; undefined numbers are null. */
-    static String toJson(DiagnosticsReport report, Draws draws) {
+    static String toJson(DiagnosticsReport report, int chains, int draws) {
         ObjectMapper mapper = new ObjectMapper().enable(SerializationFeature.INDENT_OUTPUT);
         ObjectNode root = mapper.createObjectNode();
         ArrayNode params = root.putArray("parameters");
@@ -131,8 +172,8 @@ final class DiagnoseCommand implements Callable<Integer> {
         number(root, "minEssBulk", report.minEssBulk());
         number(root, "minEssTail", report.minEssTail());
         root.put("converged", report.converged());
-        root.put("chains", draws.chains());
-        root.put("draws", draws.iterations());
+        root.put("chains", chains);
+        root.put("draws", draws);
         ObjectNode t = root.putObject("thresholds");
         t.put("maxRhat", report.thresholds().maxRhat());
         t.put("minEssPerChain", report.thresholds().minEssPerChain());
@@ -150,22 +191,22 @@ final class DiagnoseCommand implements Callable<Integer> {
     }
 
     /** The terminal table: one row per parameter, then the verdict and its reasons. */
-    static String table(DiagnosticsReport report, Draws draws, Path file) {
+    static String table(DiagnosticsReport report, int chains, int draws, Path file) {
         StringBuilder sb = new StringBuilder();
         sb.append(String.format("%s: %d chain%s x %d draws, %d parameter%s%n%n", file.getFileName(),
-                draws.chains(), draws.chains() == 1 ? "" : "s", draws.iterations(),
-                draws.names().size(), draws.names().size() == 1 ? "" : "s"));
+                chains, chains == 1 ? "" : "s", draws,
+                report.parameters().size(), report.parameters().size() == 1 ? "" : "s"));
         int width = "parameter".length();
         for (ParameterDiagnostics p : report.parameters()) {
-            width = Math.max(width, p.name().length());
+            width = Math.max(width, TerminalText.escape(p.name()).length());
         }
         String row = "%-" + width + "s  %11s  %10s  %7s  %9s  %9s  %10s%n";
         sb.append(String.format(row, "parameter", "mean", "sd", "R-hat", "bulk-ESS", "tail-ESS", "MCSE mean"));
-        double need = report.thresholds().minEssPerChain() * draws.chains();
+        double need = report.thresholds().minEssPerChain() * chains;
         for (ParameterDiagnostics p : report.parameters()) {
             boolean bad = p.defined() && (!(p.rhat() < report.thresholds().maxRhat())
                     || p.essBulk() < need || p.essTail() < need);
-            sb.append(String.format(row, p.name(), Numbers.sig(p.mean(), 4), Numbers.sig(p.sd(), 3),
+            sb.append(String.format(row, TerminalText.escape(p.name()), Numbers.sig(p.mean(), 4), Numbers.sig(p.sd(), 3),
                     Numbers.fixed(p.rhat(), 3), Numbers.count(p.essBulk()), Numbers.count(p.essTail()),
                     Numbers.sig(p.mcseMean(), 2)).replaceFirst("\\n$", bad ? "   <- check\n" : "\n"));
         }

@@ -40,7 +40,15 @@ public final class Main implements Runnable {
     }
 
     static CommandLine commandLine() {
+        return commandLine(new java.io.OutputStreamWriter(System.out, java.nio.charset.Charset.defaultCharset()),
+                new java.io.OutputStreamWriter(System.err, java.nio.charset.Charset.defaultCharset()));
+    }
+
+    /** The command line writing to {@code out} and {@code err}, with control characters escaped (see {@link TerminalText}). */
+    static CommandLine commandLine(java.io.Writer out, java.io.Writer err) {
         CommandLine cl = new CommandLine(new Main());
+        cl.setOut(new java.io.PrintWriter(new TerminalText(out), true));
+        cl.setErr(new java.io.PrintWriter(new TerminalText(err), true));
         cl.setExecutionExceptionHandler((ex, line, parsed) -> {
             // The user's input or machine (memory, files, disk): one line and exit 2; anything else is a bug.
             Throwable cause = ex;

@@ -136,4 +136,58 @@ class DiagnoseCommandTest {
         assertEquals("-", Numbers.sig(Double.NaN, 3));
         assertEquals("12,346", Numbers.count(12345.6));
     }
+
+    /** Diagnosed a few columns at a time, from the spill file, the report is the one of the whole file in memory. */
+    @Test
+    void streamedInBlocksGivesTheSameReportAsInMemory() throws IOException {
+        Path file = draws("ok.csv", 4, 600, 0.5, 1, 0.3);
+        dev.cairn.diagnostics.Thresholds t = new dev.cairn.diagnostics.Thresholds(1.01, 100);
+        dev.cairn.samplers.Draws whole;
+        try (var r = Files.newBufferedReader(file)) {
+            whole = dev.cairn.samplers.DrawsCsv.read(r);
+        }
+        java.util.List<double[][]> columns = new java.util.ArrayList<>();
+        whole.names().forEach(n -> columns.add(whole.column(n)));
+        var inMemory = dev.cairn.diagnostics.Diagnostics.of(whole.names(), columns, t);
+        long column = 8L * 4 * 600;
+        for (long budget : new long[] {(DiagnoseCommand.WORKING_COPIES + 1) * column + 1, Long.MAX_VALUE / 4}) {
+            DiagnoseCommand.Diagnosed d = DiagnoseCommand.diagnose(file, t, budget);
+            assertEquals(inMemory, d.report(), "budget " + budget);
+            assertEquals(4, d.chains());
+            assertEquals(600, d.draws());
+        }
+        BadInput tooSmall = org.junit.jupiter.api.Assertions.assertThrows(BadInput.class,
+                () -> DiagnoseCommand.diagnose(file, t, column));
+        assertTrue(tooSmall.getMessage().contains("each parameter has 2400 draws")
+                && tooSmall.getMessage().contains("CAIRN_JAVA_OPTS=-Xmx"), tooSmall.getMessage());
+        try (var spills = Files.list(Path.of(System.getProperty("java.io.tmpdir")))) {
+            assertTrue(spills.noneMatch(p -> p.getFileName().toString().startsWith("cairn-draws-")
+                    && p.toFile().lastModified() >= System.currentTimeMillis() - 60_000),
+                    "the spill file is deleted after use");
+        }
+    }
+
+    /**
+     * Names holding commas, quotes, line breaks and terminal control codes: cairn's own draws.csv is read
+     * back by diagnose, and the terminal shows the control codes escaped.
+     */
+    @Test
+    void readsEveryDrawsFileCairnWritesAndEscapesControlCodes() throws IOException {
+        Files.writeString(dir.resolve("u.csv"), "arm,spend\n\"A, north\",0\n\"A, north\",3\n\"A, north\",1\n"
+                + "\"B \"\"q\"\"\u001b[31m\u0007\",0\n\"B \"\"q\"\"\u001b[31m\u0007\",2\n"
+                + "\"B \"\"q\"\"\u001b[31m\u0007\",5\n\"C\nnext\",1\n\"C\nnext\",0\n");
+        Files.writeString(dir.resolve("s.json"), "{\"model\": \"spend\", \"data\": {\"path\": \"u.csv\", "
+                + "\"layout\": \"users\"}, \"sampler\": {\"draws\": 300}}");
+        String[] fit = MainTest.run("fit", dir.resolve("s.json").toString(), "--out", dir.resolve("o").toString());
+        assertEquals("0", fit[0], fit[2]);
+        assertFalse(fit[1].contains("\u001b") || fit[1].contains("\u0007"), "no raw control codes printed");
+        assertTrue(fit[1].contains("B \"q\"\\x1b[31m\\x07"), fit[1]);
+        String header = Files.readString(dir.resolve("o/draws.csv")).lines().findFirst().orElseThrow();
+        assertTrue(header.startsWith("chain,iteration,\"payerRate[A, north]\",\"logSpendMean[A, north]\""), header);
+        String[] r = MainTest.run("diagnose", dir.resolve("o/draws.csv").toString());
+        assertEquals("0", r[0], r[2]);
+        assertTrue(r[1].contains("payerRate[A, north]") && r[1].contains("payerRate[B \"q\"\\x1b[31m\\x07]"), r[1]);
+        assertFalse(r[1].contains("\u001b") || r[1].contains("\u0007"), r[1]);
+        assertTrue(r[1].contains("payerRate[C\nnext]"), "a line break in a name is quoted in the file, read back whole");
+    }
 }

@@ -13,9 +13,7 @@ class MainTest {
     static String[] run(String... args) {
         StringWriter out = new StringWriter();
         StringWriter err = new StringWriter();
-        CommandLine cl = Main.commandLine();
-        cl.setOut(new PrintWriter(out, true));
-        cl.setErr(new PrintWriter(err, true));
+        CommandLine cl = Main.commandLine(out, err);
         int code = cl.execute(args);
         return new String[] {String.valueOf(code), out.toString(), err.toString()};
     }

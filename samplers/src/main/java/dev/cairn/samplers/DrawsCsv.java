@@ -6,18 +6,32 @@ import java.io.Reader;
 import java.io.UncheckedIOException;
 import java.io.Writer;
 import java.util.ArrayList;
+import java.util.Iterator;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import org.apache.commons.csv.CSVFormat;
+import org.apache.commons.csv.CSVParser;
+import org.apache.commons.csv.CSVRecord;
 
 /**
- * The draws text format of the command-line contract: a header {@code chain,iteration,<name>...}, then one
- * row per draw with 1-based chain and iteration, rows grouped by chain. Values are written with
+ * The draws text format of the command-line contract: RFC 4180 CSV (Apache Commons CSV does the quoting
+ * and parsing) with LF line ends, a header {@code chain,iteration,<name>...}, then one row per draw with
+ * 1-based chain and iteration, rows grouped by chain. A name holding a comma, a quote or a line break is
+ * quoted, so any arm or segment name survives the round trip. Values are written with
  * {@link Double#toString(double)}, which reads back to the identical double.
  *
- * <p>Works on {@link Reader}/{@link Writer} only; opening files is the caller's business.
+ * <p>Works on {@link Reader}/{@link Writer} only; opening files is the caller's business. {@link Rows}
+ * reads row by row, for files too large to hold (see {@link DrawsFile}).
  */
 public final class DrawsCsv {
+    /** RFC 4180 with LF line ends; blanks around a cell are ignored on reading, blank lines skipped. */
+    static final CSVFormat FORMAT = CSVFormat.RFC4180.builder()
+            .setRecordSeparator('\n')
+            .setIgnoreSurroundingSpaces(true)
+            .setIgnoreEmptyLines(true)
+            .get();
+
     private DrawsCsv() {
     }
 
@@ -38,15 +52,14 @@ public final class DrawsCsv {
 
     public static void write(Draws draws, Writer out) {
         try {
-            StringBuilder sb = new StringBuilder(256);
-            sb.append("chain,iteration");
-            for (String n : draws.names()) {
-                sb.append(',').append(n);
-            }
-            sb.append('\n');
-            out.write(sb.toString());
+            List<String> header = new ArrayList<>(draws.names().size() + 2);
+            header.add("chain");
+            header.add("iteration");
+            header.addAll(draws.names());
+            out.write(FORMAT.format(header.toArray()));
+            out.write('\n');
             // Rows are formatted in parallel batches (formatting doubles is the cost) and written in order, so
-            // the text is the same whatever the number of threads.
+            // the text is the same whatever the number of threads. Numbers never need quoting.
             int rows = draws.chains() * draws.iterations();
             int batch = Math.max(1, Math.min(256, 2_000_000 / Math.max(1, draws.names().size())));
             for (int first = 0; first < rows; first += batch) {
@@ -75,110 +88,192 @@ public final class DrawsCsv {
     }
 
     /**
-     * Reads draws. Chains are taken in the order they first appear; every chain must have the same number
-     * of rows and each chain's rows must be contiguous.
+     * Reads draws into memory. Chains are taken in the order they first appear; every chain must have the
+     * same number of rows and each chain's rows must be contiguous.
      */
     public static Draws read(Reader in) {
-        BufferedReader reader = in instanceof BufferedReader b ? b : new BufferedReader(in);
-        try {
-            String header = reader.readLine();
-            if (header == null || header.isBlank()) {
-                throw new FormatException(0, "empty file: expected a header 'chain,iteration,<parameter>...'");
-            }
-            String[] columns = split(header);
-            if (columns.length < 1 || !columns[0].equals("chain")) {
-                throw new FormatException(1, "first column must be 'chain', was '" + (columns.length > 0 ? columns[0] : "") + "'");
-            }
-            if (columns.length < 2 || !columns[1].equals("iteration")) {
-                throw new FormatException(1, "second column must be 'iteration', was '"
-                        + (columns.length > 1 ? columns[1] : "") + "'");
-            }
-            if (columns.length < 3) {
-                throw new FormatException(1, "no parameter columns after 'chain,iteration'");
-            }
-            List<String> names = new ArrayList<>();
-            for (int j = 2; j < columns.length; j++) {
-                if (columns[j].isEmpty()) {
-                    throw new FormatException(1, "column " + (j + 1) + " has an empty name");
+        try (Rows rows = new Rows(in)) {
+            int k = rows.names().size();
+            List<List<double[]>> chains = new ArrayList<>();
+            double[] row = new double[k];
+            while (rows.next(row)) {
+                if (rows.chainIndex() == chains.size()) {
+                    chains.add(new ArrayList<>());
                 }
-                if (names.contains(columns[j])) {
-                    throw new FormatException(1, "column '" + columns[j] + "' appears twice");
-                }
-                names.add(columns[j]);
+                chains.get(rows.chainIndex()).add(row.clone());
             }
-            int k = names.size();
-            Map<String, List<double[]>> chains = new LinkedHashMap<>();
-            String current = null;
-            long lineNo = 1;
-            String line;
-            while ((line = reader.readLine()) != null) {
-                lineNo++;
-                if (line.isBlank()) {
-                    continue;
-                }
-                String[] cells = split(line);
-                if (cells.length != columns.length) {
-                    throw new FormatException(lineNo, "expected " + columns.length + " cells, found " + cells.length);
-                }
-                String chain = cells[0];
-                if (chain.isEmpty()) {
-                    throw new FormatException(lineNo, "column 'chain' is empty");
-                }
-                if (!chain.equals(current)) {
-                    if (chains.containsKey(chain)) {
-                        throw new FormatException(lineNo, "rows of chain " + chain + " are not contiguous");
-                    }
-                    chains.put(chain, new ArrayList<>());
-                    current = chain;
-                }
-                number(cells[1], lineNo, "iteration");
-                double[] row = new double[k];
-                for (int j = 0; j < k; j++) {
-                    row[j] = number(cells[j + 2], lineNo, names.get(j));
-                }
-                chains.get(chain).add(row);
-            }
-            if (chains.isEmpty()) {
-                throw new FormatException(0, "no draws after the header");
-            }
-            int n = -1;
-            String first = null;
-            for (Map.Entry<String, List<double[]>> e : chains.entrySet()) {
-                if (n < 0) {
-                    n = e.getValue().size();
-                    first = e.getKey();
-                } else if (e.getValue().size() != n) {
-                    throw new FormatException(0, "chains have unequal lengths: chain " + first + " has " + n
-                            + " draws, chain " + e.getKey() + " has " + e.getValue().size());
-                }
-            }
+            int n = rows.drawsPerChain();
             double[][][] values = new double[chains.size()][k][n];
-            int c = 0;
-            for (List<double[]> rows : chains.values()) {
+            for (int c = 0; c < chains.size(); c++) {
                 for (int t = 0; t < n; t++) {
-                    double[] row = rows.get(t);
+                    double[] r = chains.get(c).get(t);
                     for (int j = 0; j < k; j++) {
-                        values[c][j][t] = row[j];
+                        values[c][j][t] = r[j];
                     }
                 }
-                c++;
             }
-            return Draws.adopt(names, values);
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
+            return Draws.adopt(rows.names(), values);
         }
     }
 
-    private static String[] split(String line) {
-        String[] cells = line.split(",", -1);
-        for (int i = 0; i < cells.length; i++) {
-            String s = cells[i].trim();
-            if (s.length() >= 2 && s.charAt(0) == '"' && s.charAt(s.length() - 1) == '"') {
-                s = s.substring(1, s.length() - 1);
+    /**
+     * Draws text read one row at a time, checked as it goes: the header's names, then per row the chain
+     * it belongs to and its values. {@link #drawsPerChain()} at the end checks that the chains are equally
+     * long. A UTF-8 byte order mark before the header is skipped.
+     */
+    public static final class Rows implements AutoCloseable {
+        private final CSVParser parser;
+        private final Iterator<CSVRecord> records;
+        private final List<String> names;
+        private final Map<String, Integer> chains = new LinkedHashMap<>();
+        private final List<Long> counts = new ArrayList<>();
+        private String current;
+        private int chainIndex = -1;
+        private long line = 1;
+
+        public Rows(Reader in) {
+            try {
+                BufferedReader reader = in instanceof BufferedReader b ? b : new BufferedReader(in, 1 << 16);
+                reader.mark(1);
+                if (reader.read() != '\uFEFF') {
+                    reader.reset();
+                }
+                parser = CSVParser.builder().setReader(reader).setFormat(FORMAT).get();
+            } catch (IOException e) {
+                throw new UncheckedIOException(e);
             }
-            cells[i] = s;
+            records = parser.iterator();
+            CSVRecord header = record();
+            if (header == null) {
+                throw new FormatException(0, "empty file: expected a header 'chain,iteration,<parameter>...'");
+            }
+            names = names(header);
         }
-        return cells;
+
+        private static List<String> names(CSVRecord header) {
+            int width = header.size();
+            if (!header.get(0).equals("chain")) {
+                throw new FormatException(1, "first column must be 'chain', was '" + header.get(0) + "'");
+            }
+            if (width < 2 || !header.get(1).equals("iteration")) {
+                throw new FormatException(1, "second column must be 'iteration', was '"
+                        + (width > 1 ? header.get(1) : "") + "'");
+            }
+            if (width < 3) {
+                throw new FormatException(1, "no parameter columns after 'chain,iteration'");
+            }
+            List<String> names = new ArrayList<>(width - 2);
+            java.util.Set<String> seen = new java.util.HashSet<>();
+            for (int j = 2; j < width; j++) {
+                String name = header.get(j);
+                if (name.isEmpty()) {
+                    throw new FormatException(1, "column " + (j + 1) + " has an empty name");
+                }
+                if (!seen.add(name)) {
+                    throw new FormatException(1, "column '" + name + "' appears twice");
+                }
+                names.add(name);
+            }
+            return List.copyOf(names);
+        }
+
+        /** The next record, or null at the end; malformed quoting becomes a {@link FormatException}. */
+        private CSVRecord record() {
+            try {
+                if (!records.hasNext()) {
+                    return null;
+                }
+                CSVRecord r = records.next();
+                line = parser.getCurrentLineNumber();
+                return r;
+            } catch (UncheckedIOException e) {
+                if (e.getCause() instanceof java.nio.charset.CharacterCodingException) {
+                    throw e;
+                }
+                throw new FormatException(parser.getCurrentLineNumber() + 1, "not valid CSV ("
+                        + e.getCause().getMessage() + ")");
+            }
+        }
+
+        /** The parameter names, in column order. */
+        public List<String> names() {
+            return names;
+        }
+
+        /** Line of the row last read (1-based; the header is line 1). */
+        public long line() {
+            return line;
+        }
+
+        /** 0-based index of the chain of the row last read, in order of first appearance. */
+        public int chainIndex() {
+            return chainIndex;
+        }
+
+        /** Reads the next row's values into {@code row}; false at the end of the text. */
+        public boolean next(double[] row) {
+            CSVRecord r = record();
+            if (r == null) {
+                return false;
+            }
+            int width = names.size() + 2;
+            if (r.size() != width) {
+                throw new FormatException(line, "expected " + width + " cells, found " + r.size());
+            }
+            String chain = r.get(0);
+            if (chain.isEmpty()) {
+                throw new FormatException(line, "column 'chain' is empty");
+            }
+            if (!chain.equals(current)) {
+                if (chains.containsKey(chain)) {
+                    throw new FormatException(line, "rows of chain " + chain + " are not contiguous");
+                }
+                chainIndex = chains.size();
+                chains.put(chain, chainIndex);
+                counts.add(0L);
+                current = chain;
+            }
+            number(r.get(1), line, "iteration");
+            for (int j = 0; j < names.size(); j++) {
+                row[j] = number(r.get(j + 2), line, names.get(j));
+            }
+            counts.set(chainIndex, counts.get(chainIndex) + 1);
+            return true;
+        }
+
+        /** Number of chains read. */
+        public int chains() {
+            return chains.size();
+        }
+
+        /** Rows per chain, once all rows are read: checks there are some and that every chain has as many. */
+        public int drawsPerChain() {
+            if (chains.isEmpty()) {
+                throw new FormatException(0, "no draws after the header");
+            }
+            List<String> labels = new ArrayList<>(chains.keySet());
+            long n = counts.get(0);
+            for (int c = 1; c < counts.size(); c++) {
+                if (counts.get(c) != n) {
+                    throw new FormatException(0, "chains have unequal lengths: chain " + labels.get(0) + " has " + n
+                            + " draws, chain " + labels.get(c) + " has " + counts.get(c));
+                }
+            }
+            if (n > Integer.MAX_VALUE - 8) {
+                throw new FormatException(0, "chain " + labels.get(0) + " has " + n + " draws, more than "
+                        + (Integer.MAX_VALUE - 8) + " per chain can be held");
+            }
+            return (int) n;
+        }
+
+        @Override
+        public void close() {
+            try {
+                parser.close();
+            } catch (IOException e) {
+                throw new UncheckedIOException(e);
+            }
+        }
     }
 
     private static double number(String cell, long line, String column) {

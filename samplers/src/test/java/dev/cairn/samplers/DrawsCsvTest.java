@@ -51,4 +51,32 @@ class DrawsCsvTest {
         assertTrue(split.contains("line 4") && split.contains("not contiguous"), split);
         assertTrue(failure("chain,iteration,x,x\n1,1,0,0\n").contains("'x' appears twice"));
     }
+
+    /** RFC 4180: names with a comma, a quote or a line break are quoted and read back as written. */
+    @Test
+    void anyNameSurvivesTheRoundTrip() {
+        List<String> names = List.of("plain", "A, north", "say \"hi\"", "two\nlines", " padded ", "\u001b[31m");
+        double[][][] values = new double[2][names.size()][3];
+        for (int c = 0; c < 2; c++) {
+            for (int j = 0; j < names.size(); j++) {
+                for (int t = 0; t < 3; t++) {
+                    values[c][j][t] = c + 0.1 * j + 0.01 * t;
+                }
+            }
+        }
+        Draws d = Draws.of(names, values);
+        StringWriter w = new StringWriter();
+        DrawsCsv.write(d, w);
+        assertTrue(w.toString().startsWith("chain,iteration,plain,\"A, north\",\"say \"\"hi\"\"\",\"two\nlines\","),
+                w.toString());
+        assertEquals(d, DrawsCsv.read(new StringReader(w.toString())));
+        assertEquals(d, DrawsCsv.read(new StringReader("\uFEFF" + w)), "a UTF-8 byte order mark is skipped");
+        assertEquals(d, DrawsCsv.read(new StringReader(w.toString().replace("\n1,", "\r\n1,"))), "CRLF line ends");
+    }
+
+    @Test
+    void unclosedQuoteIsAFormatError() {
+        String m = failure("chain,iteration,\"x\n1,1,0.5\n");
+        assertTrue(m.contains("not valid CSV"), m);
+    }
 }

@@ -22,10 +22,15 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.Set;
 import java.util.function.Function;
+import org.apache.commons.csv.CSVFormat;
+import org.apache.commons.csv.CSVParser;
+import org.apache.commons.csv.CSVRecord;
 
 /** A relation the queries read from, with its column names and how to point at a bad row. */
 final class Source {
     private static final int SHOW_ROWS = 3;
+    /** The header line as RFC 4180 CSV; blanks around a name are not part of it. */
+    private static final CSVFormat HEADER_FORMAT = CSVFormat.RFC4180.builder().setIgnoreSurroundingSpaces(true).get();
 
     final String name;
     final String relation;
@@ -101,30 +106,34 @@ final class Source {
         };
     }
 
-    /** The header line's column names (the engine reads the data; this only names the columns). */
+    /** The header's column names, parsed as RFC 4180 CSV (the engine reads the data; this only names the columns). */
     private static List<String> header(Path file, String name) {
-        String line;
+        CSVRecord first;
         try (BufferedReader r = new BufferedReader(new java.io.InputStreamReader(Files.newInputStream(file),
                 StandardCharsets.UTF_8.newDecoder()))) {
-            line = r.readLine();
+            r.mark(1);
+            if (r.read() != '\uFEFF') {
+                r.reset();
+            }
+            CSVParser parser = CSVParser.builder().setReader(r).setFormat(HEADER_FORMAT).get();
+            var records = parser.iterator();
+            first = records.hasNext() ? records.next() : null;
         } catch (CharacterCodingException e) {
             throw new InputException(name + ": not UTF-8 text");
+        } catch (java.io.UncheckedIOException e) {
+            if (e.getCause() instanceof CharacterCodingException) {
+                throw new InputException(name + ": not UTF-8 text");
+            }
+            throw new InputException(name + ": line 1: the header is not valid CSV (" + e.getCause().getMessage() + ")");
         } catch (IOException e) {
             throw new InputException(name + ": cannot be read (" + e.getMessage() + ")");
         }
-        if (line == null || line.isBlank()) {
+        if (first == null || (first.size() == 1 && first.get(0).isEmpty())) {
             throw new InputException(name + ": empty file, expected a header line and data rows");
-        }
-        if (line.startsWith("\uFEFF")) {
-            line = line.substring(1);
         }
         List<String> columns = new ArrayList<>();
         Set<String> seen = new LinkedHashSet<>();
-        for (String cell : line.split(",", -1)) {
-            String c = cell.trim();
-            if (c.length() >= 2 && c.startsWith("\"") && c.endsWith("\"")) {
-                c = c.substring(1, c.length() - 1).replace("\"\"", "\"");
-            }
+        for (String c : first) {
             if (c.isEmpty()) {
                 throw new InputException(name + ": line 1: column " + (columns.size() + 1) + " has no name");
             }

@@ -256,4 +256,14 @@ class SpendDataReaderTest {
         assertEquals(camel.arms(), snake.arms());
         assertEquals(1.5, snake.arm("A").logSpendSum(), 0);
     }
+
+    /** The header is RFC 4180 CSV: a quoted name may hold a comma or a quote. */
+    @Test
+    void quotedHeaderNamesAreReadWhole() throws IOException {
+        Files.writeString(dir.resolve("q.csv"), "\"store, variant\",\"spend \"\"d7\"\"\"\nA,0\nA,2\nB,3\n");
+        SpendData d = SpendDataReader.read(new DataSpec("q.csv", "users",
+                Map.of("arm", "store, variant", "spend", "spend \"d7\""), null), dir, false);
+        assertEquals(List.of("A", "B"), d.armNames());
+        assertEquals(1, d.arm("A").payers());
+    }
 }
