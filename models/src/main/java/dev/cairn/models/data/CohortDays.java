@@ -1,6 +1,7 @@
 package dev.cairn.models.data;
 
 import dev.cairn.models.InputException;
+import dev.cairn.models.Limits;
 import dev.cairn.models.spec.DataSpec;
 import java.nio.file.Path;
 import java.sql.Connection;
@@ -43,6 +44,10 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
 
     public static CohortDays read(DataSpec data, Path baseDir, boolean survival) {
         DataFile file = data.rows() != null ? null : DataFile.of(data.path(), baseDir, "data.path");
+        return DataFile.whole(() -> read(data, file, survival), file);
+    }
+
+    private static CohortDays read(DataSpec data, DataFile file, boolean survival) {
         try (Connection db = Engine.open(true, file)) { // one thread: rows numbered in file order; tables are small
             String cohortCol = data.column("cohort", "cohort");
             String dayCol = data.column("day", "day");
@@ -126,6 +131,10 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
                 throw new InputException(where(source, pos, armCol) + ": arm is empty");
             }
             long day = count(source, pos, dayCol, (Double) row[3], true);
+            if (day > Limits.DAY) {
+                throw new InputException(where(source, pos, dayCol) + ": day " + day + " since install is past the "
+                        + Limits.DAY + " days cairn fits");
+            }
             long n = count(source, pos, installsCol, (Double) row[4], false);
             long a = count(source, pos, activeCol, (Double) row[5], true);
             if (a > n) {
@@ -161,6 +170,8 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
                 }
             }
         }
+        Limits.names(source.name, "cohort", cohortSet, Limits.COHORTS, cohortCol);
+        Limits.names(source.name, "arm", armSet, Limits.ARMS, armCol);
         List<String> cohorts = new ArrayList<>(cohortSet);
         List<String> arms = new ArrayList<>(armSet);
         long[][] n = new long[cohorts.size()][arms.size()];

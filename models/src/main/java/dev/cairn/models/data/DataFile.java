@@ -33,12 +33,18 @@ public final class DataFile {
     final String engineName;
     /** True for Parquet, false for CSV. */
     public final boolean parquet;
+    /** Size and modification time when the spec named it, to notice a file changed while read. */
+    private final Stamp stamp;
 
-    private DataFile(String written, Path real, String engineName, boolean parquet) {
+    private record Stamp(long size, java.nio.file.attribute.FileTime modified, Object key) {
+    }
+
+    private DataFile(String written, Path real, String engineName, boolean parquet, Stamp stamp) {
         this.written = written;
         this.real = real;
         this.engineName = engineName;
         this.parquet = parquet;
+        this.stamp = stamp;
     }
 
     /**
@@ -87,7 +93,58 @@ public final class DataFile {
         if (PATTERN.matcher(engineName).find()) {
             engineName = link(real, parquet ? ".parquet" : ".csv", written, field).toString();
         }
-        return new DataFile(written, real, engineName, parquet);
+        return new DataFile(written, real, engineName, parquet, stamp(real, written));
+    }
+
+    private static Stamp stamp(Path real, String written) {
+        try {
+            var a = Files.readAttributes(real, java.nio.file.attribute.BasicFileAttributes.class);
+            return new Stamp(a.size(), a.lastModifiedTime(), a.fileKey());
+        } catch (IOException e) {
+            throw new InputException(written + ": cannot be read (" + e.getMessage() + ")");
+        }
+    }
+
+    /**
+     * Runs a read of {@code files} and refuses what it gave, or the error it raised, if a file changed
+     * meanwhile: a half-written file makes misleading errors as well as wrong statistics.
+     */
+    static <T> T whole(java.util.function.Supplier<T> read, DataFile... files) {
+        T result;
+        try {
+            result = read.get();
+        } catch (RuntimeException e) {
+            requireUnchanged(files);
+            throw e;
+        }
+        requireUnchanged(files);
+        return result;
+    }
+
+    /**
+     * Refuses statistics read from a file that was written to, replaced or truncated while they were read:
+     * its size or modification time now differ from when the read began.
+     *
+     * @param files the files a read used (null entries skipped)
+     */
+    static void requireUnchanged(DataFile... files) {
+        for (DataFile f : files) {
+            if (f == null) {
+                continue;
+            }
+            Stamp now;
+            try {
+                now = stamp(f.real, f.written);
+            } catch (InputException e) {
+                throw new InputException(f.written + ": changed while it was read (it is gone or unreadable now); "
+                        + "fit again once it is complete");
+            }
+            if (!now.equals(f.stamp)) {
+                throw new InputException(f.written + ": changed while it was read (" + (now.size() != f.stamp.size()
+                        ? "size " + f.stamp.size() + " -> " + now.size() + " bytes" : "modified again")
+                        + "); fit again once it is complete");
+            }
+        }
     }
 
     /** The engine's path quoted as an SQL literal. */

@@ -1,6 +1,7 @@
 package dev.cairn.models.data;
 
 import dev.cairn.models.InputException;
+import dev.cairn.models.Limits;
 import dev.cairn.models.spec.DataSpec;
 import java.nio.file.Path;
 import java.sql.Connection;
@@ -19,6 +20,10 @@ final class EstimatesReader {
 
     static Estimates read(DataSpec data, Path baseDir) {
         DataFile file = data.rows() != null ? null : DataFile.of(data.path(), baseDir, "data.path");
+        return DataFile.whole(() -> read(data, file), file);
+    }
+
+    private static Estimates read(DataSpec data, DataFile file) {
         try (Connection db = Engine.open(false, file)) {
             String nameCol = data.column("name", "name");
             String estimateCol = data.column("estimate", "estimate");
@@ -56,6 +61,7 @@ final class EstimatesReader {
             } catch (SQLException e) {
                 throw Sql.readError(source.name, e);
             }
+            Limits.names(source.name, "estimate", names, Limits.ESTIMATES, name);
             if (names.size() < 2) {
                 throw new InputException(source.name + ": found " + names.size() + " estimate"
                         + (names.size() == 1 ? "" : "s") + "; pooling needs at least two");

@@ -39,6 +39,11 @@ public final class SideTable {
     public static <T> T read(String written, Path baseDir, String field, Map<String, String> columns,
                              Function<String, String> query, Rows<T> rows) {
         DataFile file = DataFile.of(written, baseDir, field);
+        return DataFile.whole(() -> read(file, written, field, columns, query, rows), file);
+    }
+
+    private static <T> T read(DataFile file, String written, String field, Map<String, String> columns,
+                              Function<String, String> query, Rows<T> rows) {
         try (Connection db = Engine.open(false, file)) {
             Source source = Source.file(db, file, c -> columns.getOrDefault(c, "VARCHAR"));
             List<String> missing = new ArrayList<>();

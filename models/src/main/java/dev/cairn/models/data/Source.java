@@ -10,7 +10,6 @@ import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.sql.Connection;
-import java.sql.PreparedStatement;
 import java.sql.ResultSet;
 import java.sql.SQLException;
 import java.sql.Statement;
@@ -25,6 +24,8 @@ import java.util.function.Function;
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVParser;
 import org.apache.commons.csv.CSVRecord;
+import org.duckdb.DuckDBAppender;
+import org.duckdb.DuckDBConnection;
 
 /** A relation the queries read from, with its column names and how to point at a bad row. */
 final class Source {
@@ -160,48 +161,48 @@ final class Source {
         for (String c : columns) {
             types.put(c, typeOf.apply(c));
         }
-        StringBuilder ddl = new StringBuilder("CREATE TEMP TABLE inline_rows (");
-        StringBuilder marks = new StringBuilder();
+        // A table of this engine's own in-memory database, filled through the engine's appender (a batch
+        // of prepared inserts runs row by row: seconds for the largest inline table).
+        StringBuilder ddl = new StringBuilder("CREATE TABLE inline_rows (");
         int k = 0;
         for (Map.Entry<String, String> e : types.entrySet()) {
             ddl.append(k == 0 ? "" : ", ").append(Sql.identifier(e.getKey())).append(' ').append(e.getValue());
-            marks.append(k == 0 ? "?" : ", ?");
             k++;
         }
         ddl.append(", row_index BIGINT)");
         try (Statement s = db.createStatement()) {
             s.execute(ddl.toString());
         }
-        try (PreparedStatement insert = db.prepareStatement("INSERT INTO inline_rows VALUES (" + marks + ", ?)")) {
+        try (DuckDBAppender append = db.unwrap(DuckDBConnection.class).createAppender(DuckDBConnection.DEFAULT_SCHEMA,
+                "inline_rows")) {
             for (int i = 0; i < rows.size(); i++) {
                 JsonNode row = rows.get(i);
-                int j = 1;
+                append.beginRow();
                 for (Map.Entry<String, String> e : types.entrySet()) {
                     JsonNode v = row.get(e.getKey());
                     String where = "/data/rows/" + i + "/" + e.getKey();
                     if (v == null || v.isNull()) {
-                        insert.setObject(j++, null);
+                        append.appendNull();
                     } else if (e.getValue().equals("DOUBLE")) {
                         if (!v.isNumber()) {
                             throw new InputException("spec: " + where + ": expected a number, found " + v);
                         }
-                        insert.setDouble(j++, v.doubleValue());
+                        append.append(v.doubleValue());
                     } else if (e.getValue().equals("BOOLEAN")) {
                         if (!(v.isBoolean() || (v.isIntegralNumber() && (v.intValue() == 0 || v.intValue() == 1)))) {
                             throw new InputException("spec: " + where + ": expected true/false or 1/0, found " + v);
                         }
-                        insert.setBoolean(j++, v.isBoolean() ? v.booleanValue() : v.intValue() == 1);
+                        append.append(v.isBoolean() ? v.booleanValue() : v.intValue() == 1);
                     } else {
                         if (!v.isValueNode()) {
                             throw new InputException("spec: " + where + ": expected a text or number, found " + v);
                         }
-                        insert.setString(j++, v.asText());
+                        append.append(v.asText());
                     }
                 }
-                insert.setLong(j, i);
-                insert.addBatch();
+                append.append((long) i);
+                append.endRow();
             }
-            insert.executeBatch();
         }
         return new Source("inline rows", "inline_rows", columns, false, "/data/rows", null);
     }

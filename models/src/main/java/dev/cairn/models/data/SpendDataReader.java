@@ -1,6 +1,7 @@
 package dev.cairn.models.data;
 
 import dev.cairn.models.InputException;
+import dev.cairn.models.Limits;
 import dev.cairn.models.spec.DataSpec;
 import dev.cairn.models.spec.SpecReader;
 import java.nio.file.Path;
@@ -41,12 +42,21 @@ public final class SpendDataReader {
      */
     public static SpendData read(DataSpec data, Path baseDir, boolean strict) {
         Cells c = cells(data, baseDir, strict, false);
+        Limits.names(c.source, "arm", new java.util.TreeSet<>(c.stats.stream().map(ArmStats::arm).toList()), Limits.ARMS,
+                data.column(ARM, ARM));
         return new SpendData(c.stats, c.hasSpend, c.source, c.rows, c.warnings, c.query);
     }
 
     /** Statistics per (segment, arm) cell, for the segmented model: {@code data.columns.segment} names the column. */
     public static SegmentedSpendData readSegmented(DataSpec data, Path baseDir, boolean strict) {
         Cells c = cells(data, baseDir, strict, true);
+        Limits.names(c.source, "arm", new java.util.TreeSet<>(c.stats.stream().map(ArmStats::arm).toList()), Limits.ARMS,
+                data.column(ARM, ARM));
+        Limits.names(c.source, "segment", new java.util.TreeSet<>(c.segments), Limits.SEGMENTS, data.column(SEGMENT, SEGMENT));
+        if (c.stats.size() > Limits.CELLS) {
+            throw new InputException(String.format(java.util.Locale.ROOT, "%s: %,d segment x arm cells, more than the "
+                    + "%,d cairn fits", c.source, c.stats.size(), Limits.CELLS));
+        }
         List<SegmentedSpendData.Cell> cells = new ArrayList<>();
         for (int i = 0; i < c.stats.size(); i++) {
             cells.add(new SegmentedSpendData.Cell(c.segments.get(i), c.stats.get(i)));
@@ -61,6 +71,10 @@ public final class SpendDataReader {
 
     private static Cells cells(DataSpec data, Path baseDir, boolean strict, boolean segmented) {
         DataFile file = data.rows() != null ? null : DataFile.of(data.path(), baseDir, "data.path");
+        return DataFile.whole(() -> cells(data, file, strict, segmented), file);
+    }
+
+    private static Cells cells(DataSpec data, DataFile file, boolean strict, boolean segmented) {
         try (Connection db = Engine.open(false, file)) {
             Source source = file == null ? Source.inline(db, data, c -> typeOf(c, data))
                     : Source.file(db, file, c -> typeOf(c, data));

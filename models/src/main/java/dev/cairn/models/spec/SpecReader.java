@@ -13,6 +13,7 @@ import com.networknt.schema.SchemaValidatorsConfig;
 import com.networknt.schema.SpecVersion;
 import com.networknt.schema.ValidationMessage;
 import dev.cairn.models.InputException;
+import dev.cairn.models.Limits;
 import java.io.IOException;
 import java.nio.charset.CharacterCodingException;
 import java.nio.charset.StandardCharsets;
@@ -52,6 +53,10 @@ public final class SpecReader {
         }
         String text;
         try {
+            if (Files.size(file) > Limits.SPEC_BYTES) {
+                throw new InputException(String.format(Locale.ROOT, "%s: %,d bytes, more than the %,d a spec may have; "
+                        + "put the data in a CSV or Parquet file (data.path)", origin, Files.size(file), Limits.SPEC_BYTES));
+            }
             text = StandardCharsets.UTF_8.newDecoder().decode(java.nio.ByteBuffer.wrap(Files.readAllBytes(file))).toString();
         } catch (NoSuchFileException e) {
             throw new InputException(origin + ": no such file");
@@ -65,6 +70,9 @@ public final class SpecReader {
 
     /** Parses and validates spec text; {@code origin} names it in messages. */
     public static Spec parse(String text, String origin) {
+        if (text.startsWith("\uFEFF")) { // a byte order mark some editors write; JSON readers may skip it (RFC 8259)
+            text = text.substring(1);
+        }
         JsonNode tree;
         try {
             tree = MAPPER.readTree(text);
@@ -75,6 +83,11 @@ public final class SpecReader {
         }
         if (tree == null || tree.isMissingNode()) {
             throw new InputException(origin + ": empty file, expected a JSON object");
+        }
+        JsonNode rows = tree.path("data").path("rows");
+        if (rows.size() > Limits.INLINE_ROWS) { // before the schema check, whose cost grows with the rows
+            throw new InputException(String.format(Locale.ROOT, "%s: /data/rows: %,d inline rows, more than %,d; put "
+                    + "the data in a CSV or Parquet file (data.path)", origin, rows.size(), Limits.INLINE_ROWS));
         }
         Set<ValidationMessage> errors = SCHEMA.validate(tree);
         if (!errors.isEmpty()) {

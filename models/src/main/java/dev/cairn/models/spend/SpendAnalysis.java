@@ -35,17 +35,18 @@ public final class SpendAnalysis {
         if (!data.hasSpend()) {
             return draws;
         }
-        Draws out = draws;
+        List<String> names = new ArrayList<>();
+        List<Draws.Derived> fs = new ArrayList<>();
         for (ArmStats a : data.arms()) {
             int mu = draws.names().indexOf(SpendPosterior.name(SpendPosterior.LOG_SPEND_MEAN, a.arm()));
             int sigma = draws.names().indexOf(SpendPosterior.name(SpendPosterior.LOG_SPEND_SD, a.arm()));
             int rate = draws.names().indexOf(SpendPosterior.name(SpendPosterior.PAYER_RATE, a.arm()));
-            out = out.withDerived(SpendPosterior.name(SpendPosterior.ARPPU, a.arm()),
-                    x -> Math.exp(x[mu] + 0.5 * x[sigma] * x[sigma]));
-            out = out.withDerived(SpendPosterior.name(SpendPosterior.ARPU, a.arm()),
-                    x -> x[rate] * Math.exp(x[mu] + 0.5 * x[sigma] * x[sigma]));
+            names.add(SpendPosterior.name(SpendPosterior.ARPPU, a.arm()));
+            fs.add(x -> Math.exp(x[mu] + 0.5 * x[sigma] * x[sigma]));
+            names.add(SpendPosterior.name(SpendPosterior.ARPU, a.arm()));
+            fs.add(x -> x[rate] * Math.exp(x[mu] + 0.5 * x[sigma] * x[sigma]));
         }
-        return out;
+        return draws.withDerived(names, fs);
     }
 
     /** The metrics compared: ARPU, payer rate and ARPPU with spend; the payer rate alone without. */

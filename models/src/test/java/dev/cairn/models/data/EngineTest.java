@@ -128,4 +128,33 @@ class EngineTest {
             }
         }
     }
+
+    /** A file written to while it is read: the statistics (or the error they raised) are refused, saying so. */
+    @Test
+    void aFileChangedWhileReadIsRefused() throws IOException {
+        Path table = dir.resolve("history.csv");
+        Files.writeString(table, "users,payers\n100,3\n120,5\n");
+        InputException grown = assertThrows(InputException.class, () -> SideTable.read("history.csv", dir,
+                "priors.fromHistory.path", java.util.Map.of("users", "DOUBLE", "payers", "DOUBLE"),
+                relation -> "SELECT count(*) FROM " + relation, rows -> {
+                    try {
+                        Files.writeString(table, "130,4\n", java.nio.file.StandardOpenOption.APPEND);
+                    } catch (IOException e) {
+                        throw new java.io.UncheckedIOException(e);
+                    }
+                    rows.next();
+                    return rows.getLong(1);
+                }));
+        assertEquals("history.csv: changed while it was read (size 25 -> 31 bytes); fit again once it is complete",
+                grown.getMessage());
+        DataFile file = DataFile.of("history.csv", dir, "data.path");
+        Files.writeString(table, "users,payers\n100,3\n");
+        InputException cut = assertThrows(InputException.class, () -> DataFile.whole(() -> {
+            throw new InputException("history.csv: line 3, column 'users': a whole number is needed");
+        }, file));
+        assertTrue(cut.getMessage().startsWith("history.csv: changed while it was read (size 31 -> 19 bytes)"),
+                "a truncated file's misleading error gives way to the cause: " + cut.getMessage());
+        DataFile same = DataFile.of("history.csv", dir, "data.path");
+        assertEquals(7, DataFile.whole(() -> 7, same), "an unchanged file passes");
+    }
 }
