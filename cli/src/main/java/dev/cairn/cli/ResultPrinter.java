@@ -79,9 +79,8 @@ final class ResultPrinter {
         sb.append("(* control; install-weighted over cohorts, unreached days projected; ").append(levelLabel(r.interval()))
                 .append(" intervals)\n\nAgainst ").append(r.control()).append(":\n");
         for (Comparison c : r.comparisons()) {
-            sb.append(String.format(Locale.ROOT, "  %-12s %-5s  lift %+.1f%% [%+.1f%%, %+.1f%%]  P(above) %.3f%n", c.arm(),
-                    c.metric().toUpperCase(Locale.ROOT), 100 * c.lift().median(), 100 * c.lift().lo(), 100 * c.lift().hi(),
-                    c.probAbove()));
+            sb.append(String.format(Locale.ROOT, "  %-12s %-5s  lift %s  P(above) %.3f%n", c.arm(),
+                    c.metric().toUpperCase(Locale.ROOT), lift(c), c.probAbove()));
         }
         if (r.ltv() != null) {
             sb.append(String.format(Locale.ROOT, "%nLTV over %s days:", r.ltv().get("horizon")));
@@ -187,8 +186,7 @@ final class ResultPrinter {
         for (Comparison c : r.comparisons()) {
             sb.append(String.format(Locale.ROOT, row, c.arm() + ("typical-segment".equals(c.scope()) ? " (typical)" : ""),
                     label(c.metric()),
-                    String.format(Locale.ROOT, "%+.1f%% [%+.1f%%, %+.1f%%]", 100 * c.lift().median(), 100 * c.lift().lo(),
-                            100 * c.lift().hi()),
+                    lift(c),
                     String.format(Locale.ROOT, "%.3f", c.probAbove()), Numbers.sig(c.expectedLoss(), 3)));
         }
         if (r.segments() != null) {
@@ -226,8 +224,7 @@ final class ResultPrinter {
                 }
                 sb.append(String.format(Locale.ROOT, row, e.getKey(), c.arm(), String.format(Locale.ROOT, "%,d", e.getValue().users()),
                         c.rawLift() == null ? "-" : String.format(Locale.ROOT, "%+.1f%%", 100 * c.rawLift()),
-                        String.format(Locale.ROOT, "%+.1f%% [%+.1f%%, %+.1f%%]", 100 * c.lift().median(),
-                                100 * c.lift().lo(), 100 * c.lift().hi()),
+                        lift(c),
                         String.format(Locale.ROOT, "%.3f", c.probAbove())));
             }
             if (e.getValue().notes() != null) {
@@ -251,5 +248,11 @@ final class ResultPrinter {
 
     private static String percent(Interval i) {
         return String.format(Locale.ROOT, "%.2f%% [%.2f%%, %.2f%%]", 100 * i.median(), 100 * i.lo(), 100 * i.hi());
+    }
+
+    /** A comparison's lift as median [lo, hi] in percent, or why there is none. */
+    static String lift(Comparison c) {
+        return c.lift() == null ? "undefined (control can be 0)" : String.format(Locale.ROOT, "%+.1f%% [%+.1f%%, %+.1f%%]",
+                100 * c.lift().median(), 100 * c.lift().lo(), 100 * c.lift().hi());
     }
 }

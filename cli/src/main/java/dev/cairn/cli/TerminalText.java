@@ -12,7 +12,7 @@ import java.io.Writer;
  *
  * <p>Files cairn writes keep names as they are; only what is printed is escaped.
  */
-final class TerminalText extends FilterWriter {
+public final class TerminalText extends FilterWriter {
     private static final boolean CRLF = System.lineSeparator().equals("\r\n");
 
     TerminalText(Writer out) {
@@ -20,7 +20,7 @@ final class TerminalText extends FilterWriter {
     }
 
     /** The escaped form of {@code s}. */
-    static String escape(String s) {
+    public static String escape(String s) {
         StringBuilder sb = null;
         for (int i = 0; i < s.length(); i++) {
             char c = s.charAt(i);

@@ -59,8 +59,35 @@ final class Charts {
         return plot;
     }
 
+    /** Longest name a chart shows in full; longer ones are cut (the tables beside them show every name whole). */
+    static final int LABEL = 28;
+    /** Longest chart title. */
+    static final int TITLE = 90;
+
+    /** A name as a chart shows it: control characters escaped, at most {@code max} characters, cut with "…". */
+    static String shorten(String name, int max) {
+        String s = dev.cairn.cli.TerminalText.escape(name);
+        return s.codePointCount(0, s.length()) <= max ? s : s.substring(0, s.offsetByCodePoints(0, max - 1)) + "…";
+    }
+
+    /** Names as chart labels: each shortened to {@link #LABEL}, and kept distinct (a cut name that repeats gets "#n"). */
+    static List<String> labels(List<String> names) {
+        List<String> out = new java.util.ArrayList<>(names.size());
+        java.util.Set<String> seen = new java.util.HashSet<>();
+        for (String name : names) {
+            String s = shorten(name, LABEL);
+            for (int n = 2; !seen.add(s); n++) {
+                s = shorten(name, LABEL - 4) + "#" + n;
+            }
+            out.add(s);
+        }
+        return out;
+    }
+
     /** Overlaid posterior histograms (one series per label), optional vertical markers at values. */
-    static String histograms(String title, String xLabel, List<String> labels, List<double[]> draws, double[] markers) {
+    static String histograms(String title, String xLabel, List<String> names, List<double[]> draws, double[] markers) {
+        List<String> labels = labels(names);
+        title = shorten(title, TITLE);
         HistogramDataset data = new HistogramDataset();
         double lo = Double.POSITIVE_INFINITY, hi = Double.NEGATIVE_INFINITY;
         for (double[] d : draws) {
@@ -100,6 +127,7 @@ final class Charts {
 
     /** A lift distribution with its credible interval shaded and zero marked. */
     static String lift(String title, double[] draws, double lo, double hi) {
+        title = shorten(title, TITLE);
         String svg;
         HistogramDataset data = new HistogramDataset();
         double min = Double.POSITIVE_INFINITY, max = Double.NEGATIVE_INFINITY;
@@ -125,6 +153,7 @@ final class Charts {
 
     /** One line per chain over iterations (thinned to at most 800 points per chain). */
     static String trace(String title, double[][] chains) {
+        title = shorten(title, TITLE);
         XYSeriesCollection data = new XYSeriesCollection();
         for (int c = 0; c < chains.length; c++) {
             XYSeries s = new XYSeries("chain " + (c + 1), false, true);
@@ -151,6 +180,7 @@ final class Charts {
      * give flat, overlapping histograms (Vehtari et al. 2021, section 4).
      */
     static String ranks(String title, double[][] chains) {
+        title = shorten(title, TITLE);
         int m = chains.length, n = chains[0].length;
         double[] pooled = new double[m * n];
         for (int c = 0; c < m; c++) {
@@ -190,8 +220,10 @@ final class Charts {
      * Intervals per labelled row (vertical error bars at positions 0..n-1) with the median as the point,
      * optionally beside a second set of points (e.g. raw estimates) drawn as hollow markers.
      */
-    static String intervals(String title, String yLabel, List<String> labels, double[] lo, double[] mid, double[] hi,
+    static String intervals(String title, String yLabel, List<String> names, double[] lo, double[] mid, double[] hi,
                             double[] raw, String rawLabel, Double reference) {
+        List<String> labels = labels(names);
+        title = shorten(title, TITLE);
         YIntervalSeriesCollection data = new YIntervalSeriesCollection();
         YIntervalSeries s = new YIntervalSeries("pooled (median and interval)");
         for (int i = 0; i < labels.size(); i++) {
@@ -235,7 +267,9 @@ final class Charts {
      * Retention curves: per arm the median with a band over days 1..T, solid up to the last observed day
      * and dashed beyond (projected), with the observed shares as points.
      */
-    static String curves(String title, List<String> arms, List<double[][]> bands, List<double[]> observed, int[] lastDay) {
+    static String curves(String title, List<String> names, List<double[][]> bands, List<double[]> observed, int[] lastDay) {
+        List<String> arms = labels(names);
+        title = shorten(title, TITLE);
         YIntervalSeriesCollection data = new YIntervalSeriesCollection();
         DeviationRenderer renderer = new DeviationRenderer(true, false);
         int series = 0;

@@ -36,11 +36,11 @@ public final class HtmlReport {
             .cautions{font-size:.85em;max-width:60em;opacity:.95}
             main{padding:1em 2em 3em;max-width:1250px}
             section{background:#fff;border-left:4px solid #d07a2c;margin:1.4em 0;padding:.6em 1.2em 1em}
-            h2{font-size:1.15em;margin:.4em 0 .6em;color:#1b6f8a}
+            h2{font-size:1.15em;margin:.4em 0 .6em;color:#1b6f8a;overflow-wrap:anywhere}
             .grid{display:flex;flex-wrap:wrap;gap:12px}
             .grid svg{border:1px solid #e6e1d6}
             table{border-collapse:collapse;font-size:.85em;margin:.6em 0;font-family:'DejaVu Sans',sans-serif}
-            th,td{padding:.25em .7em;border-bottom:1px solid #e6e1d6;text-align:right}
+            th,td{padding:.25em .7em;border-bottom:1px solid #e6e1d6;text-align:right;overflow-wrap:anywhere}
             th:first-child,td:first-child{text-align:left}
             .flag{color:#b23a48;font-weight:bold}
             p.note{font-size:.85em;color:#54626f}
@@ -129,7 +129,7 @@ public final class HtmlReport {
 
         sb.append("<section id=\"comparisons\"><h2>Against ").append(esc(r.control())).append("</h2><div class=\"grid\">");
         for (Comparison c : r.comparisons()) {
-            if (!c.metric().equals(metrics.get(0)) || "typical-segment".equals(c.scope())) {
+            if (!c.metric().equals(metrics.get(0)) || "typical-segment".equals(c.scope()) || c.lift() == null) {
                 continue;
             }
             String armKey = segmented ? "population/" + c.arm() : c.arm();
@@ -191,7 +191,7 @@ public final class HtmlReport {
                 List<double[]> rows = new ArrayList<>();
                 for (Map.Entry<String, SegmentSummary> e : r.segments().entrySet()) {
                     for (Comparison c : e.getValue().comparisons()) {
-                        if (c.arm().equals(a) && c.metric().equals(metrics.get(0))) {
+                        if (c.arm().equals(a) && c.metric().equals(metrics.get(0)) && c.lift() != null) {
                             labels.add(e.getKey());
                             rows.add(new double[] {c.lift().lo(), c.lift().median(), c.lift().hi(),
                                 c.rawLift() == null ? Double.NaN : c.rawLift()});
@@ -363,6 +363,9 @@ public final class HtmlReport {
     }
 
     static String pct(Interval i) {
+        if (i == null) {
+            return "undefined (control can be 0)";
+        }
         return String.format(Locale.ROOT, "%+.1f%% [%+.1f%%, %+.1f%%]", 100 * i.median(), 100 * i.lo(), 100 * i.hi());
     }
 }

@@ -15,6 +15,9 @@ import java.util.Set;
 
 /** Reads the {@code estimates} layout: one effect per row with its standard error. */
 final class EstimatesReader {
+    /** Estimates and standard errors the normal model represents: their squares and ratios stay finite. */
+    static final double LARGEST = 1e100, SMALLEST = 1e-100;
+
     private EstimatesReader() {
     }
 
@@ -42,6 +45,9 @@ final class EstimatesReader {
                 {y + " IS NULL OR isnan(" + y + ") OR isinf(" + y + ")", estimate, "estimate must be a finite number"},
                 {s + " IS NULL OR isnan(" + s + ") OR isinf(" + s + ")", se, "se must be a finite number"},
                 {s + " <= 0", se, "se must be > 0"},
+                {"abs(" + y + ") > " + LARGEST + " OR " + s + " > " + LARGEST + " OR " + s + " < " + SMALLEST, estimate + "/" + se,
+                    "estimates up to " + LARGEST + " in size and se from " + SMALLEST + " to " + LARGEST
+                        + " are what the model represents (squares must stay finite); rescale the unit"},
             };
             source.check(db, rules);
             String query = "SELECT " + n + " AS name, " + y + " AS estimate, " + s + " AS se FROM " + source.relation;

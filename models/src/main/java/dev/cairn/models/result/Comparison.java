@@ -5,7 +5,8 @@ import com.fasterxml.jackson.annotation.JsonInclude;
 /**
  * One arm against the control on one metric, draw by draw: lift = arm / control - 1, difference =
  * arm - control, probAbove = P(arm > control), expectedLoss = E[max(control - arm, 0)] (what shipping
- * the arm costs per user, in the metric's unit, in the draws where it is worse).
+ * the arm costs per user, in the metric's unit, in the draws where it is worse). {@code lift} is null (absent
+ * from the JSON) when the control's value is 0 in some draw: a ratio to 0 has no value.
  *
  * @param scope   segmented-spend only: "population" (user-weighted over segments) or "typical-segment"
  *                for the overall comparisons, absent for per-segment ones

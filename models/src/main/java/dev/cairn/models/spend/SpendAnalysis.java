@@ -85,18 +85,24 @@ public final class SpendAnalysis {
                 (metric, arm) -> draws.pooled(SpendPosterior.name(metric, arm)), level);
     }
 
+    /**
+     * One arm against the control, draw by draw. The lift is left out (null) when the control's value is 0 in
+     * some draw — no retention at all, say — since a ratio to 0 has no value; the rest stays.
+     */
     public static Comparison compare(String arm, String control, String metric, double[] x, double[] c, double level) {
         double[] lift = new double[x.length];
         double[] difference = new double[x.length];
         double above = 0;
         double loss = 0;
+        boolean ratio = true;
         for (int i = 0; i < x.length; i++) {
+            ratio &= c[i] > 0;
             lift[i] = x[i] / c[i] - 1;
             difference[i] = x[i] - c[i];
             above += x[i] > c[i] ? 1 : 0;
             loss += Math.max(c[i] - x[i], 0);
         }
-        return new Comparison(arm, control, metric, Interval.of(lift, level), Interval.of(difference, level),
+        return new Comparison(arm, control, metric, ratio ? Interval.of(lift, level) : null, Interval.of(difference, level),
                 above / x.length, loss / x.length);
     }
 

@@ -24,7 +24,7 @@ import org.junit.jupiter.api.io.TempDir;
  * prior families. Each case either fits with every number in result.json finite, or is refused with one line
  * (InputException) — a swept property, seeded plain loops.
  */
-class ExtremesTest {
+public class ExtremesTest {
     @TempDir
     Path dir;
 
@@ -96,7 +96,7 @@ class ExtremesTest {
     }
 
     /** The first path in the JSON tree holding a non-finite number (or its string form), or null. */
-    static String nonFinite(JsonNode n, String path) {
+    public static String nonFinite(JsonNode n, String path) {
         if (n.isNumber() && !Double.isFinite(n.doubleValue())) {
             return path;
         }
