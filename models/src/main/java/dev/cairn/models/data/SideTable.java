@@ -55,7 +55,7 @@ public final class SideTable {
             if (!missing.isEmpty()) {
                 throw new InputException(written + ": missing column" + (missing.size() > 1 ? "s " : " ")
                         + String.join(", ", missing) + " (" + field + "); columns found: "
-                        + String.join(", ", source.columns));
+                        + source.found());
             }
             List<String[]> rules = new ArrayList<>();
             for (Map.Entry<String, String> e : columns.entrySet()) {

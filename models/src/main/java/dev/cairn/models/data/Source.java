@@ -207,12 +207,17 @@ final class Source {
         return new Source("inline rows", "inline_rows", columns, false, "/data/rows", null);
     }
 
+    /** The columns as a message lists them, each quoted, since a name may hold a comma. */
+    String found() {
+        return "'" + String.join("', '", columns) + "'";
+    }
+
     String require(DataSpec data, String logical, String defaultName) {
         String c = data.column(logical, defaultName);
         if (!columns.contains(c)) {
             throw new InputException(name + ": missing column '" + c + "'"
                     + (data.mapped(logical) ? " (data.columns." + logical + ")" : " (or set data.columns." + logical + ")")
-                    + "; columns found: " + String.join(", ", columns));
+                    + "; columns found: " + found());
         }
         return c;
     }
@@ -225,7 +230,7 @@ final class Source {
         }
         if (data.mapped(logical)) {
             throw new InputException(name + ": missing column '" + c + "' (data.columns." + logical
-                    + "); columns found: " + String.join(", ", columns));
+                    + "); columns found: " + found());
         }
         return null;
     }

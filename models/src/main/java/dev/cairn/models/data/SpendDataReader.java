@@ -99,7 +99,7 @@ public final class SpendDataReader {
         if (spend == null && converted == null) {
             throw new InputException(source.name + ": needs a spend column ('" + data.column(SPEND, SPEND)
                     + "', set data.columns.spend) or a 0/1 conversion column ('" + data.column(CONVERTED, CONVERTED)
-                    + "', set data.columns.converted); columns found: " + String.join(", ", source.columns));
+                    + "', set data.columns.converted); columns found: " + source.found());
         }
         // Arms are grouped as written; only if some value carries surrounding blanks is the query run again
         // with trim(), so " B " and "B" count as one arm without paying for trim() on every row.
@@ -180,9 +180,12 @@ public final class SpendDataReader {
             }
             blanks = missing;
             if (notFinite) {
-                throw source.bad(db, "isnan(" + cast + ") OR isinf(" + cast + ")", valueColumn,
-                        count(db, source, "isnan(" + cast + ") OR isinf(" + cast + ")"),
-                        "spend must be a finite number (NaN or infinity found)");
+                long bad = count(db, source, "isnan(" + cast + ") OR isinf(" + cast + ")");
+                if (bad > 0) {
+                    throw source.bad(db, "isnan(" + cast + ") OR isinf(" + cast + ")", valueColumn, bad,
+                            "spend must be a finite number (NaN or infinity found)");
+                }
+                outOfRange = true; // finite values whose sum overflows: some lie beyond the range, named below
             }
             if (negative > 0) {
                 throw source.bad(db, cast + " < 0", valueColumn, count(db, source, cast + " < 0"),
