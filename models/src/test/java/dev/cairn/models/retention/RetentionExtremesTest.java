@@ -3,12 +3,6 @@ package dev.cairn.models.retention;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 import static org.junit.jupiter.api.Assertions.fail;
 
-import com.fasterxml.jackson.databind.ObjectMapper;
-import dev.cairn.models.Cairn;
-import dev.cairn.models.FitOptions;
-import dev.cairn.models.FitOutcome;
-import dev.cairn.models.InputException;
-import dev.cairn.models.ResultWriter;
 import dev.cairn.models.spend.ExtremesTest;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -21,12 +15,15 @@ import org.junit.jupiter.api.io.TempDir;
 /**
  * The retention and pooled-effects models at the extremes of valid data: nobody retained, everybody
  * retained, cohorts of one install, cohorts of a billion; estimates with tiny and huge standard errors and
- * huge values. Each case fits (converged or not: exit 0 or 3) with every number in result.json finite, or
- * is refused in one line — never an internal error.
+ * huge values; under every sampler the model takes. Each case fits (converged or not: exit 0 or 3) with
+ * every number in result.json finite, or is refused in one line — never an internal error.
  */
 class RetentionExtremesTest {
     @TempDir
     Path dir;
+
+    /** The samplers both models take ("auto" is NUTS for retention, its own default for pooled-effects). */
+    private static final String[] METHODS = {"auto", "slice", "metropolis-within-gibbs"};
 
     private final List<String> problems = new ArrayList<>();
     private int fitted;
@@ -34,19 +31,11 @@ class RetentionExtremesTest {
     private void fit(String name, String spec) throws Exception {
         Path file = dir.resolve("s" + fitted + problems.size() + ".json");
         Files.writeString(file, spec);
-        try {
-            FitOutcome o = Cairn.fit(file, FitOptions.DEFAULT);
-            String bad = ExtremesTest.nonFinite(new ObjectMapper().readTree(ResultWriter.json(o.result())), "");
-            if (bad != null) {
-                problems.add(name + ": non-finite " + bad);
-            }
+        String outcome = ExtremesTest.fitOrRefuse(file);
+        if (outcome.equals(ExtremesTest.FITTED)) {
             fitted++;
-        } catch (InputException e) {
-            if (e.getMessage().contains("\n")) {
-                problems.add(name + ": message of several lines");
-            }
-        } catch (RuntimeException e) {
-            problems.add(name + ": " + e);
+        } else if (!outcome.equals(ExtremesTest.REFUSED)) {
+            problems.add(name + ": " + outcome);
         }
     }
 
@@ -75,23 +64,29 @@ class RetentionExtremesTest {
         };
         for (Object[] c : cases) {
             for (String curve : new String[] {"activity", "survival"}) {
-                fit(c[0] + ", " + curve, "{\"model\": \"retention\", \"curve\": \"" + curve + "\", \"days\": [1, 7], "
-                        + "\"data\": {\"layout\": \"cohort-days\", \"rows\": [" + rows((int) c[1], (IntBinaryOperator) c[2])
-                        + "]}, \"sampler\": {\"warmup\": 300, \"draws\": 200, \"seed\": 5}}");
+                for (String method : METHODS) {
+                    fit(c[0] + ", " + curve + ", " + method, "{\"model\": \"retention\", \"curve\": \"" + curve
+                            + "\", \"days\": [1, 7], \"data\": {\"layout\": \"cohort-days\", \"rows\": ["
+                            + rows((int) c[1], (IntBinaryOperator) c[2]) + "]}, \"sampler\": {\"method\": \"" + method
+                            + "\", \"warmup\": 300, \"draws\": 200, \"seed\": 5}}");
+                }
             }
         }
-        report(6);
+        report(18);
     }
 
     @Test
     void pooledEffectsAtTheExtremesFitOrAreRefusedInOneLine() throws Exception {
         double[][] cases = {{0.1, 1e-12}, {0.1, 1e9}, {1e12, 1}, {1e300, 1}, {0.1, 1e-300}};
         for (double[] c : cases) {
-            fit("estimate " + c[0] + ", se " + c[1], "{\"model\": \"pooled-effects\", \"data\": {\"layout\": \"estimates\", "
-                    + "\"rows\": [{\"name\": \"a\", \"estimate\": " + c[0] + ", \"se\": " + c[1] + "}, {\"name\": \"b\", "
-                    + "\"estimate\": " + (-c[0]) + ", \"se\": " + c[1] + "}]}, \"sampler\": {\"draws\": 300, \"seed\": 5}}");
+            for (String method : METHODS) {
+                fit("estimate " + c[0] + ", se " + c[1] + ", " + method, "{\"model\": \"pooled-effects\", \"data\": "
+                        + "{\"layout\": \"estimates\", \"rows\": [{\"name\": \"a\", \"estimate\": " + c[0] + ", \"se\": "
+                        + c[1] + "}, {\"name\": \"b\", \"estimate\": " + (-c[0]) + ", \"se\": " + c[1] + "}]}, "
+                        + "\"sampler\": {\"method\": \"" + method + "\", \"draws\": 300, \"seed\": 5}}");
+            }
         }
-        report(3);
+        report(9);
     }
 
     private void report(int mustFit) {

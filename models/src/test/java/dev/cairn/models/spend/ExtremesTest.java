@@ -69,20 +69,13 @@ public class ExtremesTest {
                         Files.writeString(spec, "{\"model\": \"spend\", \"data\": {\"path\": \"" + csv.getFileName()
                                 + "\", \"layout\": \"users\"}, \"sampler\": {\"method\": \"" + method
                                 + "\", \"warmup\": 200, \"draws\": 200, \"seed\": " + (k + 1) + "}" + priors + "}");
-                        try {
-                            FitOutcome o = Cairn.fit(spec, FitOptions.DEFAULT);
-                            String bad = nonFinite(new ObjectMapper().readTree(ResultWriter.json(o.result())), "");
-                            if (bad != null) {
-                                problems.add(name + ": non-finite " + bad);
-                            }
+                        String outcome = fitOrRefuse(spec);
+                        if (outcome.equals(FITTED)) {
                             fitted++;
-                        } catch (InputException e) {
-                            if (e.getMessage().contains("\n")) {
-                                problems.add(name + ": message of several lines");
-                            }
+                        } else if (outcome.equals(REFUSED)) {
                             refused++;
-                        } catch (RuntimeException e) {
-                            problems.add(name + ": " + e);
+                        } else {
+                            problems.add(name + ": " + outcome);
                         }
                     }
                 }
@@ -93,6 +86,25 @@ public class ExtremesTest {
             fail(problems.size() + " cases failed:\n" + String.join("\n", problems));
         }
         assertTrue(fitted > refused, "most extreme cases fit: " + fitted + " fitted, " + refused + " refused");
+    }
+
+    public static final String FITTED = "fitted", REFUSED = "refused";
+
+    /**
+     * Fits a spec and says how it ended: {@link #FITTED} with every number in result.json finite,
+     * {@link #REFUSED} in one line, or else what went wrong (a non-finite number, a message of several lines,
+     * any other exception).
+     */
+    public static String fitOrRefuse(Path spec) throws java.io.IOException {
+        try {
+            FitOutcome o = Cairn.fit(spec, FitOptions.DEFAULT);
+            String bad = nonFinite(new ObjectMapper().readTree(ResultWriter.json(o.result())), "");
+            return bad == null ? FITTED : "non-finite " + bad;
+        } catch (InputException e) {
+            return e.getMessage().contains("\n") ? "message of several lines" : REFUSED;
+        } catch (RuntimeException e) {
+            return e.toString();
+        }
     }
 
     /** The first path in the JSON tree holding a non-finite number (or its string form), or null. */
