@@ -11,16 +11,21 @@ import org.apache.commons.rng.UniformRandomProvider;
 public final class LocalSlice {
     private final Slice.Widths widths;
     private final double[] result = new double[2];
-    private UniformRandomProvider rng;
+    private final UniformRandomProvider rng;
     private boolean adapt;
 
-    public LocalSlice(int coordinates, double initialWidth) {
+    /**
+     * @param coordinates  how many coordinates it may update (widths are kept per coordinate)
+     * @param initialWidth the starting stepping-out width
+     * @param stream       the chain's random stream
+     */
+    public LocalSlice(int coordinates, double initialWidth, UniformRandomProvider stream) {
         this.widths = new Slice.Widths(coordinates, initialWidth);
+        this.rng = stream;
     }
 
-    /** Binds the chain's stream and whether this sweep is in warmup. */
-    public void begin(UniformRandomProvider r, boolean adaptNow) {
-        this.rng = r;
+    /** Says whether this sweep is in warmup (widths adapt) or not (widths frozen). */
+    public void begin(boolean adaptNow) {
         this.adapt = adaptNow;
     }
 

@@ -1,6 +1,7 @@
 package dev.cairn.samplers;
 
 import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
 import org.ejml.interfaces.decomposition.CholeskyDecomposition_F64;
@@ -42,8 +43,8 @@ public final class BlockMetropolisStep implements Step {
     }
 
     @Override
-    public Updater start(Target target) {
-        return new BlockUpdater(Coordinates.resolve(coordinates, target), initialScale);
+    public Updater start(Target target, UniformRandomProvider stream) {
+        return new BlockUpdater(Coordinates.resolve(coordinates, target), initialScale, stream);
     }
 
     /** Per-chain state: running mean and covariance of the history, the scale and the Cholesky factor. */
@@ -62,10 +63,12 @@ public final class BlockMetropolisStep implements Step {
         private final int warmupBeforeCovariance;
         private long proposals;
         private long accepted;
-        private final ChainGaussian normal = new ChainGaussian();
-        private UniformRandomProvider stream;
+        private final UniformRandomProvider stream;
+        private final ZigguratSampler.NormalizedGaussian normal;
 
-        BlockUpdater(int[] coordinates, double initialScale) {
+        BlockUpdater(int[] coordinates, double initialScale, UniformRandomProvider stream) {
+            this.stream = stream;
+            this.normal = ZigguratSampler.NormalizedGaussian.of(stream);
             this.coordinates = coordinates;
             this.d = coordinates.length;
             this.mean = new double[d];
@@ -103,12 +106,11 @@ public final class BlockMetropolisStep implements Step {
         }
 
         @Override
-        public void update(ChainState state, UniformRandomProvider rng, boolean adapt) {
-            stream = rng;
+        public void update(ChainState state, boolean adapt) {
             double[] x = state.point();
             double sd = Math.exp(logLambda / 2);
             for (int i = 0; i < d; i++) {
-                z[i] = normal.sample(stream);
+                z[i] = normal.sample();
                 saved[i] = x[coordinates[i]];
             }
             for (int i = 0; i < d; i++) {
@@ -121,7 +123,7 @@ public final class BlockMetropolisStep implements Step {
             double lp = ChainState.evaluate(state.target(), x);
             double logRatio = lp - state.logDensity();
             proposals++;
-            if (Math.log(rng.nextDouble()) < logRatio) {
+            if (Math.log(stream.nextDouble()) < logRatio) {
                 state.accept(lp);
                 accepted++;
             } else {

@@ -37,7 +37,7 @@ public final class Chain {
             }
             ChainState state = new ChainState(target, u);
             if (state.logDensity() > Double.NEGATIVE_INFINITY && state.logDensity() < Double.POSITIVE_INFINITY) {
-                return new Chain(state, sweep.start(target), rng);
+                return new Chain(state, sweep.start(target, rng), rng);
             }
         }
         throw new NoStartException(chainIndex + 1, START_ATTEMPTS);
@@ -46,7 +46,7 @@ public final class Chain {
     /** One sweep of every step; {@code adapt} is true only in warmup. */
     public void iterate(boolean adapt) {
         for (Step.Updater u : updaters) {
-            u.update(state, rng, adapt);
+            u.update(state, adapt);
         }
     }
 

@@ -1,5 +1,6 @@
 package dev.cairn.samplers;
 
+import java.util.function.Function;
 import org.apache.commons.rng.UniformRandomProvider;
 
 /**
@@ -11,28 +12,34 @@ public final class GibbsStep implements Step {
     /** Draws some coordinates of {@code point} (unconstrained scale) from their full conditional. */
     @FunctionalInterface
     public interface ConditionalDraw {
-        void draw(double[] point, UniformRandomProvider rng);
+        void draw(double[] point);
     }
 
-    private final java.util.function.Supplier<ConditionalDraw> perChain;
+    /** A stateless conditional draw that takes the chain's stream on each call. */
+    @FunctionalInterface
+    public interface StreamDraw {
+        void draw(double[] point, UniformRandomProvider stream);
+    }
 
-    private GibbsStep(java.util.function.Supplier<ConditionalDraw> perChain) {
+    private final Function<UniformRandomProvider, ConditionalDraw> perChain;
+
+    private GibbsStep(Function<UniformRandomProvider, ConditionalDraw> perChain) {
         this.perChain = perChain;
     }
 
     /** A stateless conditional draw, shared by all chains. */
-    public static GibbsStep of(ConditionalDraw draw) {
+    public static GibbsStep of(StreamDraw draw) {
         if (draw == null) {
             throw new IllegalArgumentException("conditional draw must not be null");
         }
-        return new GibbsStep(() -> draw);
+        return new GibbsStep(stream -> point -> draw.draw(point, stream));
     }
 
     /**
-     * A conditional draw with per-chain state (for example samplers bound to the chain's random stream):
-     * {@code factory} makes one for each chain.
+     * A conditional draw with per-chain state, such as samplers bound to the chain's random stream:
+     * {@code factory} makes one for each chain from the chain's stream.
      */
-    public static GibbsStep perChain(java.util.function.Supplier<ConditionalDraw> factory) {
+    public static GibbsStep perChain(Function<UniformRandomProvider, ConditionalDraw> factory) {
         if (factory == null) {
             throw new IllegalArgumentException("conditional draw factory must not be null");
         }
@@ -40,10 +47,10 @@ public final class GibbsStep implements Step {
     }
 
     @Override
-    public Updater start(Target target) {
-        ConditionalDraw draw = perChain.get();
-        return (state, rng, adapt) -> {
-            draw.draw(state.point(), rng);
+    public Updater start(Target target, UniformRandomProvider stream) {
+        ConditionalDraw draw = perChain.apply(stream);
+        return (state, adapt) -> {
+            draw.draw(state.point());
             state.refresh();
         };
     }

@@ -15,9 +15,12 @@ final class Hamiltonian {
     final int d;
     final double[] inverseMetric;
     private final double[] fullGradient;
-    private final ChainGaussian normal = new ChainGaussian();
+    private final UniformRandomProvider rng;
+    private final org.apache.commons.rng.sampling.distribution.ZigguratSampler.NormalizedGaussian normal;
 
-    Hamiltonian(GradientTarget target, int[] block) {
+    Hamiltonian(GradientTarget target, int[] block, UniformRandomProvider stream) {
+        this.rng = stream;
+        this.normal = org.apache.commons.rng.sampling.distribution.ZigguratSampler.NormalizedGaussian.of(stream);
         this.target = target;
         this.block = block;
         boolean consecutive = true;
@@ -39,7 +42,7 @@ final class Hamiltonian {
      * estimate is not a positive finite curvature keep the unit metric. Saves the long unit-metric
      * trajectories of the first warmup phase when coordinates differ in scale by orders of magnitude.
      */
-    void curvatureMetric(double[] x, UniformRandomProvider rng) {
+    void curvatureMetric(double[] x) {
         double[] q = x.clone();
         double[] up = new double[fullGradient.length], down = new double[fullGradient.length];
         double[] sum = new double[d];
@@ -70,9 +73,9 @@ final class Hamiltonian {
         }
     }
 
-    void drawMomentum(PhasePoint point, UniformRandomProvider rng) {
+    void drawMomentum(PhasePoint point) {
         for (int i = 0; i < d; i++) {
-            point.p[i] = normal.sample(rng) / Math.sqrt(inverseMetric[i]);
+            point.p[i] = normal.sample() / Math.sqrt(inverseMetric[i]);
         }
     }
 

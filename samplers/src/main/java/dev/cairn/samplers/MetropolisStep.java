@@ -1,6 +1,7 @@
 package dev.cairn.samplers;
 
 import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 
 /**
  * Random-walk Metropolis on one coordinate at a time (Metropolis-within-Gibbs), each coordinate with its
@@ -37,8 +38,8 @@ public final class MetropolisStep implements Step {
     }
 
     @Override
-    public Updater start(Target target) {
-        return new MetropolisUpdater(Coordinates.resolve(coordinates, target), initialScale);
+    public Updater start(Target target, UniformRandomProvider stream) {
+        return new MetropolisUpdater(Coordinates.resolve(coordinates, target), initialScale, stream);
     }
 
     /** Per-chain state: log proposal sd per coordinate and the current batch's acceptance counts. */
@@ -50,10 +51,12 @@ public final class MetropolisStep implements Step {
         private int batches;
         private long proposals;
         private long accepted;
-        private final ChainGaussian normal = new ChainGaussian();
-        private UniformRandomProvider stream;
+        private final UniformRandomProvider stream;
+        private final ZigguratSampler.NormalizedGaussian normal;
 
-        MetropolisUpdater(int[] coordinates, double scale) {
+        MetropolisUpdater(int[] coordinates, double scale, UniformRandomProvider stream) {
+            this.stream = stream;
+            this.normal = ZigguratSampler.NormalizedGaussian.of(stream);
             this.coordinates = coordinates;
             this.logScale = new double[coordinates.length];
             java.util.Arrays.fill(logScale, Math.log(scale));
@@ -70,16 +73,15 @@ public final class MetropolisStep implements Step {
         }
 
         @Override
-        public void update(ChainState state, UniformRandomProvider rng, boolean adapt) {
-            stream = rng;
+        public void update(ChainState state, boolean adapt) {
             double[] x = state.point();
             for (int k = 0; k < coordinates.length; k++) {
                 int i = coordinates[k];
                 double x0 = x[i];
-                x[i] = x0 + Math.exp(logScale[k]) * normal.sample(stream);
+                x[i] = x0 + Math.exp(logScale[k]) * normal.sample();
                 double lp = ChainState.evaluate(state.target(), x);
                 proposals++;
-                if (Math.log(rng.nextDouble()) < lp - state.logDensity()) {
+                if (Math.log(stream.nextDouble()) < lp - state.logDensity()) {
                     state.accept(lp);
                     accepted++;
                     acceptedInBatch[k]++;

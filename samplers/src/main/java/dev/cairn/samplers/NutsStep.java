@@ -91,7 +91,7 @@ public final class NutsStep implements Step {
     }
 
     @Override
-    public Updater start(Target target) {
+    public Updater start(Target target, org.apache.commons.rng.UniformRandomProvider stream) {
         GradientTarget g;
         if (conditional != null) {
             if (conditional.parameters().size() != target.parameters().size()) {
@@ -105,6 +105,6 @@ public final class NutsStep implements Step {
             throw new IllegalArgumentException("NUTS needs a target with a gradient (a GradientTarget)");
         }
         return new NutsUpdater(g, Coordinates.resolve(coordinates, target), warmup, maxDepth, targetAcceptance,
-                conditional != null);
+                conditional != null, stream);
     }
 }

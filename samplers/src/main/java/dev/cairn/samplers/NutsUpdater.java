@@ -25,7 +25,7 @@ public final class NutsUpdater implements Step.Updater {
     private double stepSize = 1;
     private boolean initialised;
     private boolean adapting;
-    private UniformRandomProvider rng;
+    private final UniformRandomProvider rng;
     // per-transition bookkeeping
     private int leapfrogs;
     private double sumAcceptance;
@@ -53,8 +53,9 @@ public final class NutsUpdater implements Step.Updater {
     private final int first;
 
     NutsUpdater(GradientTarget target, int[] block, int warmup, int maxDepth, double targetAcceptance,
-                boolean partial) {
-        this.ham = new Hamiltonian(target, block);
+                boolean partial, UniformRandomProvider stream) {
+        this.rng = stream;
+        this.ham = new Hamiltonian(target, block, stream);
         this.partial = partial;
         this.first = ham.first;
         this.block = block;
@@ -127,8 +128,7 @@ public final class NutsUpdater implements Step.Updater {
     }
 
     @Override
-    public void update(ChainState state, UniformRandomProvider r, boolean adapt) {
-        this.rng = r;
+    public void update(ChainState state, boolean adapt) {
         double[] x = state.point();
         for (PhasePoint point : allPoints) {
             System.arraycopy(x, 0, point.q, 0, x.length);
@@ -140,7 +140,7 @@ public final class NutsUpdater implements Step.Updater {
         if (!initialised) {
             initialised = true;
             if (adapt) {
-                ham.curvatureMetric(x, rng);
+                ham.curvatureMetric(x);
             }
             findStepSize();
             stepSizes.restart(stepSize);
@@ -170,7 +170,7 @@ public final class NutsUpdater implements Step.Updater {
 
     /** One NUTS transition from z; leaves the chosen point in {@code sample}; returns the acceptance statistic. */
     private double transition() {
-        ham.drawMomentum(z, rng);
+        ham.drawMomentum(z);
         double h0 = ham.energy(z);
         forward.copyFrom(z, block, first);
         backward.copyFrom(z, block, first);
@@ -330,7 +330,7 @@ public final class NutsUpdater implements Step.Updater {
         int direction = 0;
         for (int attempt = 0; attempt < 100; attempt++) {
             z.copyFrom(start, block, first);
-            ham.drawMomentum(z, rng);
+            ham.drawMomentum(z);
             double h0 = ham.energy(z);
             ham.leapfrog(z, stepSize);
             double h = ham.energy(z);

@@ -47,8 +47,8 @@ public final class SliceStep implements Step {
     }
 
     @Override
-    public Updater start(Target target) {
-        return new SliceUpdater(Coordinates.resolve(coordinates, target), initialWidth, maxStepsOut);
+    public Updater start(Target target, UniformRandomProvider stream) {
+        return new SliceUpdater(Coordinates.resolve(coordinates, target), initialWidth, maxStepsOut, stream);
     }
 
     /** Per-chain slice state: the current widths and the warmup statistics behind them. */
@@ -58,7 +58,10 @@ public final class SliceStep implements Step {
         private final int maxStepsOut;
         private final double[] result = new double[2];
 
-        SliceUpdater(int[] coordinates, double initialWidth, int maxStepsOut) {
+        private final UniformRandomProvider stream;
+
+        SliceUpdater(int[] coordinates, double initialWidth, int maxStepsOut, UniformRandomProvider stream) {
+            this.stream = stream;
             this.coordinates = coordinates;
             this.maxStepsOut = maxStepsOut;
             this.widths = new Slice.Widths(coordinates.length, initialWidth);
@@ -70,13 +73,13 @@ public final class SliceStep implements Step {
         }
 
         @Override
-        public void update(ChainState state, UniformRandomProvider rng, boolean adapt) {
+        public void update(ChainState state, boolean adapt) {
             double[] x = state.point();
             Target target = state.target();
             for (int k = 0; k < coordinates.length; k++) {
                 int i = coordinates[k];
                 double x0 = x[i];
-                Slice.sample(v -> densityAt(target, x, i, v), x0, state.logDensity(), widths.get(k), maxStepsOut, rng,
+                Slice.sample(v -> densityAt(target, x, i, v), x0, state.logDensity(), widths.get(k), maxStepsOut, stream,
                         result);
                 x[i] = result[0];
                 state.accept(result[1]);

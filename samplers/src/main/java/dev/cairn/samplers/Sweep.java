@@ -27,10 +27,10 @@ public final class Sweep {
     }
 
     /** Per-chain updaters, one per step, in sweep order. */
-    Step.Updater[] start(Target target) {
+    Step.Updater[] start(Target target, org.apache.commons.rng.UniformRandomProvider stream) {
         Step.Updater[] updaters = new Step.Updater[steps.size()];
         for (int i = 0; i < updaters.length; i++) {
-            updaters[i] = steps.get(i).start(target);
+            updaters[i] = steps.get(i).start(target, stream);
         }
         return updaters;
     }

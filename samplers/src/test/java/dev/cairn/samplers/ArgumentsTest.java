@@ -51,6 +51,6 @@ class ArgumentsTest {
     @Test
     void coordinatesOutsideTheTarget() {
         Target t = Target.of(Parameters.real("mu"), x -> 0);
-        refused(() -> SliceStep.of(1, new int[] {3}).start(t), "coordinate 3", "0..0");
+        refused(() -> SliceStep.of(1, new int[] {3}).start(t, RandomStreams.forChain(1, 0)), "coordinate 3", "0..0");
     }
 }

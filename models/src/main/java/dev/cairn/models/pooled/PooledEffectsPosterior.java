@@ -153,18 +153,17 @@ public final class PooledEffectsPosterior {
     /** Slice on log tau under its marginal, then exact draws of mu, the effects and the predictive effect. */
     final class CollapsedStep implements Step {
         @Override
-        public Updater start(Target target) {
+        public Updater start(Target target, UniformRandomProvider stream) {
             Target marginal = Target.onConstrainedScale(Parameters.builder().positive(TAU).build(),
                     x -> logMarginalTau(x[0]));
-            Updater slice = SliceStep.of(1.0).start(marginal);
+            Updater slice = SliceStep.of(1.0).start(marginal, stream);
             return new Updater() {
                 private ChainState tauState;
-                private final dev.cairn.samplers.ChainGaussian normal = new dev.cairn.samplers.ChainGaussian();
-                private UniformRandomProvider stream;
+                private final org.apache.commons.rng.sampling.distribution.ZigguratSampler.NormalizedGaussian normal =
+                        org.apache.commons.rng.sampling.distribution.ZigguratSampler.NormalizedGaussian.of(stream);
 
                 @Override
-                public void update(ChainState state, UniformRandomProvider rng, boolean adapt) {
-                    stream = rng;
+                public void update(ChainState state, boolean adapt) {
                     double[] x = state.point();
                     if (tauState == null) {
                         tauState = ChainState.of(marginal, new double[] {x[I_TAU]});
@@ -172,17 +171,17 @@ public final class PooledEffectsPosterior {
                         tauState.point()[0] = x[I_TAU];
                         tauState.refresh();
                     }
-                    slice.update(tauState, rng, adapt);
+                    slice.update(tauState, adapt);
                     x[I_TAU] = tauState.point()[0];
                     double tau = Math.exp(x[I_TAU]);
                     double[] m = muGivenTau(tau);
-                    double mu = m[0] + Math.sqrt(m[1]) * normal.sample(stream);
+                    double mu = m[0] + Math.sqrt(m[1]) * normal.sample();
                     x[I_MU] = mu;
                     for (int j = 0; j < y.length; j++) {
                         NormalMean effect = hierarchy.effectGiven(j, mu, tau);
-                        x[FIRST_EFFECT + j] = effect.mean() + normal.sample(stream) * Math.sqrt(effect.variance());
+                        x[FIRST_EFFECT + j] = effect.mean() + normal.sample() * Math.sqrt(effect.variance());
                     }
-                    x[I_PREDICTIVE] = mu + tau * normal.sample(stream);
+                    x[I_PREDICTIVE] = mu + tau * normal.sample();
                     state.refresh();
                 }
             };

@@ -27,13 +27,13 @@ final class DriftStep implements Step {
     }
 
     @Override
-    public Updater start(Target target) {
-        LocalSlice slice = new LocalSlice(target.parameters().size(), 0.5);
-        return (ChainState state, UniformRandomProvider rng, boolean adapt) -> {
+    public Updater start(Target target, UniformRandomProvider stream) {
+        LocalSlice slice = new LocalSlice(target.parameters().size(), 0.5, stream);
+        return (ChainState state, boolean adapt) -> {
             if (m.cohorts < 2) {
                 return;
             }
-            slice.begin(rng, adapt);
+            slice.begin(adapt);
             double[] x = state.point();
             // the increments sigma eps_c are held; eps follows the new sigma
             double sigma = Math.exp(x[logSigma]);

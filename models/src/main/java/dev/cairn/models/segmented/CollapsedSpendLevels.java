@@ -3,11 +3,11 @@ package dev.cairn.models.segmented;
 import dev.cairn.models.KnownVarianceHierarchy;
 import dev.cairn.models.LocalSlice;
 import dev.cairn.models.NormalMean;
-import dev.cairn.samplers.ChainGaussian;
 import dev.cairn.samplers.ChainState;
 import dev.cairn.samplers.Step;
 import dev.cairn.samplers.Target;
 import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 
 /**
  * A collapsed Gibbs update of the spend levels (tauBeta, beta0, beta_j). Given every cell's sigma_jk and arm
@@ -34,24 +34,25 @@ final class CollapsedSpendLevels implements Step {
     }
 
     @Override
-    public Updater start(Target target) {
-        return new Collapse(target.parameters().size());
+    public Updater start(Target target, UniformRandomProvider stream) {
+        return new Collapse(target.parameters().size(), stream);
     }
 
     private final class Collapse implements Updater {
         private final LocalSlice slice;
-        private final ChainGaussian normal = new ChainGaussian();
+        private final ZigguratSampler.NormalizedGaussian normal;
         private final int segs = cells.segmentCount(), arms = cells.armCount();
         private final double[] mu = new double[segs * arms], logSigma = new double[segs * arms];
         private final double[] estimate = new double[segs], variance = new double[segs];
 
-        Collapse(int size) {
-            slice = new LocalSlice(size, 0.5);
+        Collapse(int size, UniformRandomProvider stream) {
+            slice = new LocalSlice(size, 0.5, stream);
+            normal = ZigguratSampler.NormalizedGaussian.of(stream);
         }
 
         @Override
-        public void update(ChainState state, UniformRandomProvider rng, boolean adapt) {
-            slice.begin(rng, adapt);
+        public void update(ChainState state, boolean adapt) {
+            slice.begin(adapt);
             double[] x = state.point();
             mean.values(x, mu);
             spread.values(x, logSigma);
@@ -78,11 +79,11 @@ final class CollapsedSpendLevels implements Step {
                     + h.logMarginal(Math.exp(l)));
             double tau = Math.exp(x[mean.logTauLevel]);
             NormalMean m = h.meanGivenTau(tau);
-            double beta0 = m.mean() + normal.sample(rng) * Math.sqrt(m.variance());
+            double beta0 = m.mean() + normal.sample() * Math.sqrt(m.variance());
             x[mean.levelMean] = beta0;
             for (int j = 0; j < segs; j++) {
                 NormalMean b = h.effectGiven(j, beta0, tau);
-                double level = b.mean() + normal.sample(rng) * Math.sqrt(b.variance());
+                double level = b.mean() + normal.sample() * Math.sqrt(b.variance());
                 double old = mu[j * arms + cells.control];
                 x[mean.level[j]] = mean.levelNc[j] ? (level - beta0) / tau : level;
                 if (!mean.effectNc[j]) {

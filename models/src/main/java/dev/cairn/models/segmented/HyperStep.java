@@ -2,11 +2,11 @@ package dev.cairn.models.segmented;
 
 import dev.cairn.models.LocalSlice;
 import dev.cairn.models.NormalMean;
-import dev.cairn.samplers.ChainGaussian;
 import dev.cairn.samplers.ChainState;
 import dev.cairn.samplers.Step;
 import dev.cairn.samplers.Target;
 import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 
 /**
  * Interweaving moves of one {@link HierarchicalCells} structure's hyperparameters in the centred
@@ -57,13 +57,13 @@ final class HyperStep implements Step {
     }
 
     @Override
-    public Updater start(Target target) {
-        return new Interweave(target.parameters().size());
+    public Updater start(Target target, UniformRandomProvider stream) {
+        return new Interweave(target.parameters().size(), stream);
     }
 
     private final class Interweave implements Updater {
         private final LocalSlice slice;
-        private final ChainGaussian normal = new ChainGaussian();
+        private final ZigguratSampler.NormalizedGaussian normal;
         private final double[] levels = new double[s.segments];
         private final double[] values = new double[s.segments * s.arms];
         /** Warmup draws of the effect scale, to place the split of the partially centred move. */
@@ -71,13 +71,14 @@ final class HyperStep implements Step {
         private double split = Double.NaN;
         private boolean frozen;
 
-        Interweave(int size) {
-            slice = new LocalSlice(size, 0.5);
+        Interweave(int size, UniformRandomProvider stream) {
+            slice = new LocalSlice(size, 0.5, stream);
+            normal = ZigguratSampler.NormalizedGaussian.of(stream);
         }
 
         @Override
-        public void update(ChainState state, UniformRandomProvider rng, boolean adapt) {
-            slice.begin(rng, adapt);
+        public void update(ChainState state, boolean adapt) {
+            slice.begin(adapt);
             double[] x = state.point();
             s.values(x, values);
             int arms = s.arms;
@@ -92,7 +93,7 @@ final class HyperStep implements Step {
                 sum += l;
             }
             mean.addSum(sum, s.segments, tau * tau);
-            x[s.levelMean] = mean.mean() + normal.sample(rng) * Math.sqrt(mean.variance());
+            x[s.levelMean] = mean.mean() + normal.sample() * Math.sqrt(mean.variance());
             double ss = 0;
             for (double l : levels) {
                 ss += (l - x[s.levelMean]) * (l - x[s.levelMean]);
@@ -105,7 +106,7 @@ final class HyperStep implements Step {
                 }
             }
             if (!s.sharedEffects) {
-                effects(x, rng);
+                effects(x);
                 if (likelihood != null) {
                     partiallyCentred(x, adapt);
                 }
@@ -188,7 +189,7 @@ final class HyperStep implements Step {
             }
         }
 
-        private void effects(double[] x, UniformRandomProvider rng) {
+        private void effects(double[] x) {
             int arms = s.arms;
             double tauE = Math.exp(x[s.logTauEffect]);
             double ss = 0;
@@ -202,7 +203,7 @@ final class HyperStep implements Step {
                     sum += values[j * arms + k] - values[j * arms + s.control];
                 }
                 NormalMean m = NormalMean.prior(0, prior.armMeanSd() * prior.armMeanSd()).addSum(sum, s.segments, tauE * tauE);
-                x[s.armMean[k]] = m.mean() + normal.sample(rng) * Math.sqrt(m.variance());
+                x[s.armMean[k]] = m.mean() + normal.sample() * Math.sqrt(m.variance());
                 for (int j = 0; j < s.segments; j++) {
                     double e = values[j * arms + k] - values[j * arms + s.control] - x[s.armMean[k]];
                     ss += e * e;

@@ -148,7 +148,7 @@ public final class SpendPosterior {
             return lp;
         });
         List<Step> steps = new ArrayList<>();
-        steps.add(GibbsStep.perChain(() -> new PayerRateDraw(arms, perArm, a0, b0)));
+        steps.add(GibbsStep.perChain(stream -> new PayerRateDraw(arms, perArm, a0, b0, stream)));
         if (perArm == 3) {
             int[] spendCoordinates = new int[2 * arms.size()];
             for (int k = 0; k < arms.size(); k++) {
@@ -191,37 +191,24 @@ public final class SpendPosterior {
     private static final class PayerRateDraw implements GibbsStep.ConditionalDraw {
         private final List<ArmStats> arms;
         private final int perArm;
-        private final double a0;
-        private final double b0;
-        private UniformRandomProvider boundTo;
-        private ContinuousSampler[] samplers;
+        /** One Beta sampler per arm, bound to the chain's stream. */
+        private final ContinuousSampler[] samplers;
 
-        PayerRateDraw(List<ArmStats> arms, int perArm, double a0, double b0) {
+        PayerRateDraw(List<ArmStats> arms, int perArm, double a0, double b0, UniformRandomProvider stream) {
             this.arms = arms;
             this.perArm = perArm;
-            this.a0 = a0;
-            this.b0 = b0;
+            this.samplers = new ContinuousSampler[arms.size()];
+            for (int k = 0; k < arms.size(); k++) {
+                ArmStats a = arms.get(k);
+                samplers[k] = ChengBetaSampler.of(stream, a0 + a.payers(), b0 + a.users() - a.payers());
+            }
         }
 
         @Override
-        public void draw(double[] point, UniformRandomProvider rng) {
-            ContinuousSampler[] s = bind(rng);
+        public void draw(double[] point) {
             for (int k = 0; k < arms.size(); k++) {
-                point[k * perArm] = Transform.UNIT_INTERVAL.unconstrain(clamp(s[k].sample()));
+                point[k * perArm] = Transform.UNIT_INTERVAL.unconstrain(clamp(samplers[k].sample()));
             }
-        }
-
-        /** Samplers bound to this chain's stream, made on first use. */
-        private ContinuousSampler[] bind(UniformRandomProvider rng) {
-            if (rng != boundTo) {
-                samplers = new ContinuousSampler[arms.size()];
-                for (int k = 0; k < arms.size(); k++) {
-                    ArmStats a = arms.get(k);
-                    samplers[k] = ChengBetaSampler.of(rng, a0 + a.payers(), b0 + a.users() - a.payers());
-                }
-                boundTo = rng;
-            }
-            return samplers;
         }
 
         /** A Beta draw of exactly 0 or 1 has no logit; move it to the nearest representable interior value. */
