@@ -111,7 +111,7 @@ public final class SpendScaling {
         peakMemory(csvSpec, dir);
 
         SpendPriors priors = new SpendPriors(SpendPriors.DEFAULT_PAYER_RATE, null,
-                new SpendPriors.NormalMean(0, 10), new SpendPriors.HalfNormalSd(3), "default", null);
+                new dev.cairn.models.prior.Normal(0, 10), new dev.cairn.models.prior.HalfNormal(3), "default", null);
         double first = 0;
         for (long n = 10_000; n <= 10_000_000; n *= 10) {
             SpendData data = syntheticStats(n);

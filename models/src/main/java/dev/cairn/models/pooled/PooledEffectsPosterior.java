@@ -53,6 +53,7 @@ public final class PooledEffectsPosterior {
     private final double[] y;
     private final double[] s2;
     private final PooledPriors priors;
+    private final dev.cairn.models.prior.Prior tauPrior;
     private final KnownVarianceHierarchy hierarchy;
 
     PooledEffectsPosterior(Estimates data, PooledPriors priors) {
@@ -62,6 +63,7 @@ public final class PooledEffectsPosterior {
             s2[j] = data.se()[j] * data.se()[j];
         }
         this.priors = priors;
+        this.tauPrior = priors.tauPrior();
         double v0 = priors.muVariance();
         this.hierarchy = KnownVarianceHierarchy.of(y, s2, Double.isFinite(v0) ? priors.muMean() : 0, v0);
     }
@@ -87,11 +89,16 @@ public final class PooledEffectsPosterior {
                 .run(joint, Sweep.of(model.new CollapsedStep()), model.initializer(data));
     }
 
+    /** log p(tau) up to a constant; -infinity outside the support (tau > 0, and the family's own). */
+    private double logTau(double tau) {
+        return tau > 0 ? tauPrior.logDensity(tau) : Double.NEGATIVE_INFINITY;
+    }
+
     /** log p(mu, tau, theta_new, theta | y) up to a constant, on the natural scale. */
     double logJoint(double[] x) {
         double mu = x[I_MU];
         double tau = x[I_TAU];
-        double lp = priors.logTau(tau);
+        double lp = logTau(tau);
         if (lp == Double.NEGATIVE_INFINITY) {
             return lp;
         }
@@ -111,7 +118,7 @@ public final class PooledEffectsPosterior {
 
     /** log p(tau | y) up to a constant (mu and theta integrated out). */
     double logMarginalTau(double tau) {
-        double lp = priors.logTau(tau);
+        double lp = logTau(tau);
         if (lp == Double.NEGATIVE_INFINITY) {
             return lp;
         }
@@ -137,7 +144,7 @@ public final class PooledEffectsPosterior {
         return (chain, parameters, rng) -> {
             double[] u = new double[parameters.size()];
             double tau = scale * Math.exp(2 * rng.nextDouble() - 1);
-            if (priors.logTau(tau) == Double.NEGATIVE_INFINITY && "uniform".equals(priors.tauFamily())) {
+            if (logTau(tau) == Double.NEGATIVE_INFINITY && "uniform".equals(priors.tauFamily())) {
                 tau = priors.tauLower() + rng.nextDouble() * (priors.tauUpper() - priors.tauLower());
             }
             u[I_MU] = centre + scale * (2 * rng.nextDouble() - 1);

@@ -2,6 +2,12 @@ package dev.cairn.models.pooled;
 
 import com.fasterxml.jackson.annotation.JsonInclude;
 import dev.cairn.models.data.Estimates;
+import dev.cairn.models.prior.Flat;
+import dev.cairn.models.prior.HalfCauchy;
+import dev.cairn.models.prior.HalfNormal;
+import dev.cairn.models.prior.Normal;
+import dev.cairn.models.prior.Prior;
+import dev.cairn.models.prior.Uniform;
 import dev.cairn.models.spec.PriorsSpec;
 
 /**
@@ -46,15 +52,17 @@ public record PooledPriors(String muFamily, Double muMean, Double muSd, String t
         return muSd == null ? Double.POSITIVE_INFINITY : muSd * muSd;
     }
 
-    /** log p(tau) up to a constant; -infinity outside the support. */
-    double logTau(double tau) {
-        if (!(tau > 0)) {
-            return Double.NEGATIVE_INFINITY;
-        }
+    /** mu's prior as an object. */
+    Prior muPrior() {
+        return muSd == null ? new Flat() : new Normal(muMean, muSd);
+    }
+
+    /** tau's prior as an object. */
+    Prior tauPrior() {
         return switch (tauFamily) {
-            case "uniform" -> tau >= tauLower && tau <= tauUpper ? 0.0 : Double.NEGATIVE_INFINITY;
-            case "half-normal" -> -0.5 * (tau / tauScale) * (tau / tauScale);
-            default -> -Math.log1p((tau / tauScale) * (tau / tauScale));
+            case "uniform" -> new Uniform(tauLower, tauUpper);
+            case "half-normal" -> new HalfNormal(tauScale);
+            default -> new HalfCauchy(tauScale);
         };
     }
 }

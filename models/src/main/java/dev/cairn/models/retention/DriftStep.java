@@ -45,8 +45,7 @@ final class DriftStep implements Step {
             double squares = ss;
             int increments = m.cohorts - 1;
             slice.update(x, logSigma, l -> {
-                double t = Math.exp(l) / RetentionPosterior.DRIFT_SD;
-                return -0.5 * t * t + l - increments * l - squares / (2 * Math.exp(2 * l));
+                return RetentionPosterior.DRIFT.logDensityOfLog(l) - increments * l - squares / (2 * Math.exp(2 * l));
             });
             if (nonCentred) {
                 double ratio = sigma / Math.exp(x[logSigma]);

@@ -104,9 +104,8 @@ final class RetentionDensity implements GradientTarget {
         for (int c = 1; c < m.cohorts; c++) {
             lp -= 0.5 * x[first + c] * x[first + c];
         }
-        double t = sigma / RetentionPosterior.DRIFT_SD;
-        lp += -0.5 * t * t + x[logSigma];
-        g[logSigma] += -t * t + 1;
+        lp += RetentionPosterior.DRIFT.logDensityOfLog(x[logSigma]);
+        g[logSigma] += RetentionPosterior.DRIFT.derivativeOfLog(x[logSigma]);
         return lp;
     }
 
@@ -123,9 +122,8 @@ final class RetentionDensity implements GradientTarget {
             g[first + c - 1] += r / sigma;
             g[logSigma] += r * r - 1;
         }
-        double t = sigma / RetentionPosterior.DRIFT_SD;
-        lp += -0.5 * t * t + l;
-        g[logSigma] += -t * t + 1;
+        lp += RetentionPosterior.DRIFT.logDensityOfLog(l);
+        g[logSigma] += RetentionPosterior.DRIFT.derivativeOfLog(l);
         return lp;
     }
 

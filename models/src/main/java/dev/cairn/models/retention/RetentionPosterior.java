@@ -46,6 +46,8 @@ import org.apache.commons.rng.UniformRandomProvider;
  */
 public final class RetentionPosterior {
     static final double OFFSET_SD = 1, DRIFT_SD = 0.25, LOG_KAPPA_MEAN = Math.log(100), LOG_KAPPA_SD = 1.5;
+    /** The drift scales' prior: half-normal with sd {@link #DRIFT_SD}. */
+    static final dev.cairn.models.prior.HalfNormal DRIFT = new dev.cairn.models.prior.HalfNormal(DRIFT_SD);
     /** Activity curves are centred on day 7: the covariate is log(1 + t) - log 8. */
     static final double CENTRE = Math.log(8);
 

@@ -73,9 +73,9 @@ final class CollapsedSpendLevels implements Step {
                 estimate[j] = precision > 0 ? weighted / precision : 0;
             }
             HierarchicalCells.Prior prior = SegmentedLayout.MEAN;
-            KnownVarianceHierarchy h = KnownVarianceHierarchy.of(estimate, variance, prior.mean(),
-                    prior.meanSd() * prior.meanSd());
-            slice.update(x, mean.logTauLevel, l -> HierarchicalCells.halfNormalOnLog(l, prior.levelScale())
+            KnownVarianceHierarchy h = KnownVarianceHierarchy.of(estimate, variance, prior.mean().mean(),
+                    prior.mean().sd() * prior.mean().sd());
+            slice.update(x, mean.logTauLevel, l -> prior.level().logDensityOfLog(l)
                     + h.logMarginal(Math.exp(l)));
             double tau = Math.exp(x[mean.logTauLevel]);
             NormalMean m = h.meanGivenTau(tau);

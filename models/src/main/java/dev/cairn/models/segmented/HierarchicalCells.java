@@ -1,5 +1,8 @@
 package dev.cairn.models.segmented;
 
+import dev.cairn.models.prior.HalfNormal;
+import dev.cairn.models.prior.Normal;
+
 /**
  * One two-level structure of cell values over segments j and arms k, as the segmented-spend model uses it
  * three times (payer-rate logits, mean log spend, log spread):
@@ -32,7 +35,8 @@ final class HierarchicalCells {
     final int[] level;
     final int[][] effect;
     final boolean[] levelNc, effectNc;
-    private final double meanPrior, meanPriorSd, armMeanSd, levelScale, effectScale;
+    private final Normal meanPrior, armMeanPrior;
+    private final HalfNormal levelPrior, effectPrior;
 
     HierarchicalCells(Prior prior, int segments, int arms, int control, boolean sharedEffects, int levelMean,
                       int logTauLevel, int logTauEffect, int[] armMean, int[] level, int[][] effect, boolean[] levelNc,
@@ -50,22 +54,20 @@ final class HierarchicalCells {
         this.levelNc = levelNc;
         this.effectNc = effectNc;
         this.meanPrior = prior.mean();
-        this.meanPriorSd = prior.meanSd();
-        this.armMeanSd = prior.armMeanSd();
-        this.levelScale = prior.levelScale();
-        this.effectScale = prior.effectScale();
+        this.armMeanPrior = prior.armMean();
+        this.levelPrior = prior.level();
+        this.effectPrior = prior.effect();
     }
 
     /**
      * Hyperpriors of one structure.
      *
-     * @param mean        prior mean of levelMean
-     * @param meanSd      prior sd of levelMean
-     * @param armMeanSd   prior sd of each armMean_k
-     * @param levelScale  half-normal scale of tauLevel
-     * @param effectScale half-normal scale of tauEffect (unused with shared effects)
+     * @param mean    prior of levelMean
+     * @param armMean prior of each armMean_k (centred on 0)
+     * @param level   prior of tauLevel
+     * @param effect  prior of tauEffect; null with shared effects
      */
-    record Prior(double mean, double meanSd, double armMeanSd, double levelScale, double effectScale) {
+    record Prior(Normal mean, Normal armMean, HalfNormal level, HalfNormal effect) {
     }
 
     /** The centred level of segment j at point x. */
@@ -113,19 +115,19 @@ final class HierarchicalCells {
      */
     double backward(double[] x, double[] values, double[] adjoint, double[] gradient) {
         double mean = x[levelMean], logTauL = x[logTauLevel], tauL = Math.exp(logTauL);
-        double lp = normal(mean, meanPrior, meanPriorSd) + halfNormalOnLog(logTauL, levelScale);
-        gradient[levelMean] -= (mean - meanPrior) / (meanPriorSd * meanPriorSd);
-        gradient[logTauLevel] += halfNormalOnLogDerivative(logTauL, levelScale);
+        double lp = meanPrior.logDensity(mean) + levelPrior.logDensityOfLog(logTauL);
+        gradient[levelMean] += meanPrior.derivative(mean);
+        gradient[logTauLevel] += levelPrior.derivativeOfLog(logTauL);
         double logTauE = sharedEffects ? 0 : x[logTauEffect], tauE = Math.exp(logTauE);
         if (!sharedEffects) {
-            lp += halfNormalOnLog(logTauE, effectScale);
-            gradient[logTauEffect] += halfNormalOnLogDerivative(logTauE, effectScale);
+            lp += effectPrior.logDensityOfLog(logTauE);
+            gradient[logTauEffect] += effectPrior.derivativeOfLog(logTauE);
         }
         for (int k = 0; k < arms; k++) {
             if (k != control) {
                 double m = x[armMean[k]];
-                lp += normal(m, 0, armMeanSd);
-                gradient[armMean[k]] -= m / (armMeanSd * armMeanSd);
+                lp += armMeanPrior.logDensity(m);
+                gradient[armMean[k]] += armMeanPrior.derivative(m);
             }
         }
         for (int j = 0; j < segments; j++) {
@@ -196,21 +198,5 @@ final class HierarchicalCells {
                 }
             }
         }
-    }
-
-    static double normal(double v, double mean, double sd) {
-        double z = (v - mean) / sd;
-        return -0.5 * z * z;
-    }
-
-    /** log half-N(0, scale^2) density of tau = e^l plus the log-Jacobian l (constants dropped). */
-    static double halfNormalOnLog(double l, double scale) {
-        double t = Math.exp(l) / scale;
-        return -0.5 * t * t + l;
-    }
-
-    static double halfNormalOnLogDerivative(double l, double scale) {
-        double t = Math.exp(l) / scale;
-        return -t * t + 1;
     }
 }

@@ -1,5 +1,7 @@
 package dev.cairn.models.segmented;
 
+import dev.cairn.models.prior.HalfNormal;
+
 import dev.cairn.models.LocalSlice;
 import dev.cairn.models.NormalMean;
 import dev.cairn.samplers.ChainState;
@@ -87,7 +89,7 @@ final class HyperStep implements Step {
             }
             // levels: mean exactly, then the scale
             double tau = Math.exp(x[s.logTauLevel]);
-            NormalMean mean = NormalMean.prior(prior.mean(), prior.meanSd() * prior.meanSd());
+            NormalMean mean = NormalMean.prior(prior.mean().mean(), prior.mean().sd() * prior.mean().sd());
             double sum = 0;
             for (double l : levels) {
                 sum += l;
@@ -98,7 +100,7 @@ final class HyperStep implements Step {
             for (double l : levels) {
                 ss += (l - x[s.levelMean]) * (l - x[s.levelMean]);
             }
-            scale(x, s.logTauLevel, prior.levelScale(), s.segments, ss);
+            scale(x, s.logTauLevel, prior.level(), s.segments, ss);
             double newTau = Math.exp(x[s.logTauLevel]);
             for (int j = 0; j < s.segments; j++) {
                 if (s.levelNc[j]) {
@@ -168,7 +170,7 @@ final class HyperStep implements Step {
             int n = pinnedCount, f = free;
             slice.update(x, s.logTauEffect, l -> {
                 double t = Math.exp(l);
-                double lp = HierarchicalCells.halfNormalOnLog(l, prior.effectScale()) - n * l - ss / (2 * t * t);
+                double lp = prior.effect().logDensityOfLog(l) - n * l - ss / (2 * t * t);
                 for (int i = 0; i < f; i++) {
                     lp += likelihood.at(x, freeCells[i], freeBase[i] + t * freeZ[i]);
                 }
@@ -202,7 +204,7 @@ final class HyperStep implements Step {
                 for (int j = 0; j < s.segments; j++) {
                     sum += values[j * arms + k] - values[j * arms + s.control];
                 }
-                NormalMean m = NormalMean.prior(0, prior.armMeanSd() * prior.armMeanSd()).addSum(sum, s.segments, tauE * tauE);
+                NormalMean m = NormalMean.prior(0, prior.armMean().sd() * prior.armMean().sd()).addSum(sum, s.segments, tauE * tauE);
                 x[s.armMean[k]] = m.mean() + normal.sample() * Math.sqrt(m.variance());
                 for (int j = 0; j < s.segments; j++) {
                     double e = values[j * arms + k] - values[j * arms + s.control] - x[s.armMean[k]];
@@ -210,7 +212,7 @@ final class HyperStep implements Step {
                     count++;
                 }
             }
-            scale(x, s.logTauEffect, prior.effectScale(), count, ss);
+            scale(x, s.logTauEffect, prior.effect(), count, ss);
             double newTau = Math.exp(x[s.logTauEffect]);
             for (int j = 0; j < s.segments; j++) {
                 if (!s.effectNc[j]) {
@@ -231,8 +233,8 @@ final class HyperStep implements Step {
         }
 
         /** Slice update of log tau given n centred values with squared deviations ss around their mean. */
-        private void scale(double[] x, int at, double halfNormalScale, int n, double ss) {
-            slice.update(x, at, l -> HierarchicalCells.halfNormalOnLog(l, halfNormalScale) - n * l
+        private void scale(double[] x, int at, HalfNormal scalePrior, int n, double ss) {
+            slice.update(x, at, l -> scalePrior.logDensityOfLog(l) - n * l
                     - ss / (2 * Math.exp(2 * l)));
         }
     }

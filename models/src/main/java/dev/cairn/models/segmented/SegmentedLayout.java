@@ -1,5 +1,8 @@
 package dev.cairn.models.segmented;
 
+import dev.cairn.models.prior.HalfNormal;
+import dev.cairn.models.prior.Normal;
+
 import dev.cairn.samplers.Parameters;
 import java.util.Locale;
 
@@ -18,9 +21,12 @@ import java.util.Locale;
  */
 final class SegmentedLayout {
     /** Hyperpriors (scale reasoning in {@link SegmentedDensity}). */
-    static final HierarchicalCells.Prior PAYER = new HierarchicalCells.Prior(-3, 2, 1, 1, 0.5);
-    static final HierarchicalCells.Prior MEAN = new HierarchicalCells.Prior(0, 5, 1, 1, 0.5);
-    static final HierarchicalCells.Prior SPREAD = new HierarchicalCells.Prior(0, 1, 0.5, 0.5, 0);
+    static final HierarchicalCells.Prior PAYER = new HierarchicalCells.Prior(new Normal(-3, 2), new Normal(0, 1),
+            new HalfNormal(1), new HalfNormal(0.5));
+    static final HierarchicalCells.Prior MEAN = new HierarchicalCells.Prior(new Normal(0, 5), new Normal(0, 1),
+            new HalfNormal(1), new HalfNormal(0.5));
+    static final HierarchicalCells.Prior SPREAD = new HierarchicalCells.Prior(new Normal(0, 1), new Normal(0, 0.5),
+            new HalfNormal(0.5), null);
 
     final Parameters parameters;
     final HierarchicalCells payer;

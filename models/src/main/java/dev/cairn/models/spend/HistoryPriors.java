@@ -53,7 +53,7 @@ final class HistoryPriors {
         double between = variance(rate) - noise;
         double concentration = between > 0 ? r * (1 - r) / between - 1 : Double.POSITIVE_INFINITY;
         concentration = Math.min(Math.max(concentration, 2), medianUsers);
-        SpendPriors.Beta beta = new SpendPriors.Beta(Math.max(r * concentration, 1e-3),
+        dev.cairn.models.prior.Beta beta = new dev.cairn.models.prior.Beta(Math.max(r * concentration, 1e-3),
                 Math.max((1 - r) * concentration, 1e-3));
 
         List<Double> means = new ArrayList<>();
@@ -90,7 +90,7 @@ final class HistoryPriors {
         if (!(sigma2 > 0)) {
             throw new InputException(path + ": past periods show no spread in log spend; cannot fit a prior");
         }
-        return new SpendPriors(beta, new SpendPriors.Nig(mu0, kappa0, alpha0, beta0), null, null, "history",
+        return new SpendPriors(beta, new dev.cairn.models.prior.NormalInverseGamma(mu0, kappa0, alpha0, beta0), null, null, "history",
                 "method of moments on " + k + " past periods of " + path + "; weights capped at one median period");
     }
 

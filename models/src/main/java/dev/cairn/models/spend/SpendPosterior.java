@@ -113,7 +113,7 @@ public final class SpendPosterior {
     }
 
     /** {mu_n, kappa_n, alpha_n, beta_n} of the Normal-Inverse-Gamma posterior (Murphy 2007, eqs. 86-89). */
-    static double[] nigPosterior(SpendPriors.Nig prior, ArmStats a) {
+    static double[] nigPosterior(dev.cairn.models.prior.NormalInverseGamma prior, ArmStats a) {
         long m = a.payers();
         double kn = prior.kappa0() + m;
         if (m == 0) {
@@ -170,14 +170,9 @@ public final class SpendPosterior {
     static double logSpendDensity(double mu, double sigma, ArmStats a, SpendPriors priors) {
         double lp;
         if (priors.conjugate()) {
-            SpendPriors.Nig nig = priors.logSpend();
-            double v = sigma * sigma;
-            lp = -(nig.alpha0() + 1) * Math.log(v) - nig.beta0() / v
-                    - nig.kappa0() * (mu - nig.mu0()) * (mu - nig.mu0()) / (2 * v);
+            lp = priors.logSpend().logDensityOnSd(mu, sigma);
         } else {
-            double zMu = (mu - priors.logSpendMean().mean()) / priors.logSpendMean().sd();
-            double zSigma = sigma / priors.logSpendSd().sd();
-            lp = -0.5 * zMu * zMu - 0.5 * zSigma * zSigma;
+            lp = priors.logSpendMean().logDensity(mu) + priors.logSpendSd().logDensity(sigma);
         }
         long m = a.payers();
         if (m > 0) {

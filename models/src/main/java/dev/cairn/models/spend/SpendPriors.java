@@ -1,6 +1,11 @@
 package dev.cairn.models.spend;
 
 import com.fasterxml.jackson.annotation.JsonInclude;
+import dev.cairn.models.prior.Beta;
+import dev.cairn.models.prior.HalfNormal;
+import dev.cairn.models.prior.Normal;
+import dev.cairn.models.prior.NormalInverseGamma;
+import dev.cairn.models.prior.Priors;
 import dev.cairn.models.spec.PriorsSpec;
 
 /**
@@ -20,42 +25,11 @@ import dev.cairn.models.spec.PriorsSpec;
  * @param source "default", "spec" or "history"
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
-public record SpendPriors(Beta payerRate, Nig logSpend, NormalMean logSpendMean, HalfNormalSd logSpendSd,
+public record SpendPriors(Beta payerRate, NormalInverseGamma logSpend, Normal logSpendMean, HalfNormal logSpendSd,
                           String source, String note) {
 
-    public record Beta(double a, double b) {
-        public Beta {
-            positive("payerRate.a", a);
-            positive("payerRate.b", b);
-        }
-    }
-
-    /** mu | sigma^2 ~ N(mu0, sigma^2 / kappa0), sigma^2 ~ Inv-Gamma(alpha0, beta0). */
-    public record Nig(double mu0, double kappa0, double alpha0, double beta0) {
-        public Nig {
-            if (!Double.isFinite(mu0)) {
-                throw new IllegalArgumentException("logSpend.mu0 must be finite, was " + mu0);
-            }
-            positive("logSpend.kappa0", kappa0);
-            positive("logSpend.alpha0", alpha0);
-            positive("logSpend.beta0", beta0);
-        }
-    }
-
-    public record NormalMean(double mean, double sd) {
-        public NormalMean {
-            positive("logSpendMean.sd", sd);
-        }
-    }
-
-    public record HalfNormalSd(double sd) {
-        public HalfNormalSd {
-            positive("logSpendSd.sd", sd);
-        }
-    }
-
     public static final Beta DEFAULT_PAYER_RATE = new Beta(1, 1);
-    public static final Nig DEFAULT_LOG_SPEND = new Nig(0, 0.01, 1, 1);
+    public static final NormalInverseGamma DEFAULT_LOG_SPEND = new NormalInverseGamma(0, 0.01, 1, 1);
 
     public boolean conjugate() {
         return logSpend != null;
@@ -63,20 +37,13 @@ public record SpendPriors(Beta payerRate, Nig logSpend, NormalMean logSpendMean,
 
     /** The priors of a spec (defaults where it gives none). */
     public static SpendPriors fromSpec(PriorsSpec p) {
-        Beta beta = p.payerRate() == null ? DEFAULT_PAYER_RATE : new Beta(p.payerRate().a(), p.payerRate().b());
+        Beta beta = p.payerRate() == null ? DEFAULT_PAYER_RATE : Priors.of(p.payerRate());
         boolean any = p.payerRate() != null || p.logSpend() != null || p.nonConjugate();
         if (p.nonConjugate()) {
-            return new SpendPriors(beta, null, new NormalMean(p.logSpendMean().mean(), p.logSpendMean().sd()),
-                    new HalfNormalSd(p.logSpendSd().sd()), any ? "spec" : "default", null);
+            return new SpendPriors(beta, null, Priors.of(p.logSpendMean(), "/priors/logSpendMean"),
+                    Priors.of(p.logSpendSd(), "/priors/logSpendSd"), any ? "spec" : "default", null);
         }
-        Nig nig = p.logSpend() == null ? DEFAULT_LOG_SPEND
-                : new Nig(p.logSpend().mu0(), p.logSpend().kappa0(), p.logSpend().alpha0(), p.logSpend().beta0());
+        NormalInverseGamma nig = p.logSpend() == null ? DEFAULT_LOG_SPEND : Priors.of(p.logSpend());
         return new SpendPriors(beta, nig, null, null, any ? "spec" : "default", null);
-    }
-
-    private static void positive(String name, double v) {
-        if (!(v > 0) || Double.isInfinite(v)) {
-            throw new IllegalArgumentException(name + " must be a finite number > 0, was " + v);
-        }
     }
 }

@@ -142,17 +142,17 @@ class SegmentedTest {
         for (int r = 0; r < replications; r++) {
             HierarchicalCells.Prior payer = SegmentedLayout.PAYER, mean = SegmentedLayout.MEAN;
             HierarchicalCells.Prior spread = SegmentedLayout.SPREAD;
-            double alpha0 = payer.mean() + payer.meanSd() * g.sample();
-            double bigD = payer.armMeanSd() * g.sample();
-            double beta0 = mean.mean() + mean.meanSd() * g.sample();
-            double bigE = mean.armMeanSd() * g.sample();
-            double s0 = spread.mean() + spread.meanSd() * g.sample();
-            double bigG = spread.armMeanSd() * g.sample();
-            double tA = Math.abs(payer.levelScale() * g.sample());
-            double tD = Math.abs(payer.effectScale() * g.sample());
-            double tB = Math.abs(mean.levelScale() * g.sample());
-            double tE = Math.abs(mean.effectScale() * g.sample());
-            double tS = Math.abs(spread.levelScale() * g.sample());
+            double alpha0 = payer.mean().mean() + payer.mean().sd() * g.sample();
+            double bigD = payer.armMean().sd() * g.sample();
+            double beta0 = mean.mean().mean() + mean.mean().sd() * g.sample();
+            double bigE = mean.armMean().sd() * g.sample();
+            double s0 = spread.mean().mean() + spread.mean().sd() * g.sample();
+            double bigG = spread.armMean().sd() * g.sample();
+            double tA = Math.abs(payer.level().sd() * g.sample());
+            double tD = Math.abs(payer.effect().sd() * g.sample());
+            double tB = Math.abs(mean.level().sd() * g.sample());
+            double tE = Math.abs(mean.effect().sd() * g.sample());
+            double tS = Math.abs(spread.level().sd() * g.sample());
             double[][] p = new double[4][2], mu = new double[4][2];
             double[][] sd = new double[4][2];
             for (int j = 0; j < 4; j++) {

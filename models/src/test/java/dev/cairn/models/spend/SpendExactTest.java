@@ -26,8 +26,8 @@ class SpendExactTest {
     static final ArmStats ARM = ArmStats.summary("A", 4000, 120, 120 * 1.5, 150 + 120 * 1.5 * 1.5);
     static final ArmStats OTHER = ArmStats.summary("B", 3000, 70, 70 * 1.2, 90 + 70 * 1.2 * 1.2);
     static final SpendData DATA = new SpendData(List.of(ARM, OTHER), true, "test", 7000, List.of(), "");
-    static final SpendPriors PRIORS = new SpendPriors(new SpendPriors.Beta(2, 30),
-            new SpendPriors.Nig(1.0, 0.5, 2.0, 1.5), null, null, "spec", null);
+    static final SpendPriors PRIORS = new SpendPriors(new dev.cairn.models.prior.Beta(2, 30),
+            new dev.cairn.models.prior.NormalInverseGamma(1.0, 0.5, 2.0, 1.5), null, null, "spec", null);
 
     static Draws exact() {
         return SpendPosterior.exact(DATA, PRIORS, RunSettings.of(4, 0, DRAWS, 99), Progress.NONE, new Cancellation());

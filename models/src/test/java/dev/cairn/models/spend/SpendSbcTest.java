@@ -30,8 +30,8 @@ class SpendSbcTest {
 
     @Test
     void nonConjugateSpendModelIsCalibrated() {
-        SpendPriors priors = new SpendPriors(new SpendPriors.Beta(3, 40), null,
-                new SpendPriors.NormalMean(1.5, 0.5), new SpendPriors.HalfNormalSd(1.0), "spec", null);
+        SpendPriors priors = new SpendPriors(new dev.cairn.models.prior.Beta(3, 40), null,
+                new dev.cairn.models.prior.Normal(1.5, 0.5), new dev.cairn.models.prior.HalfNormal(1.0), "spec", null);
         UniformRandomProvider rng = RandomStreams.forChain(2018, 0);
         ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
         Sbc sbc = new Sbc();
