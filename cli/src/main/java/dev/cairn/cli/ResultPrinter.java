@@ -54,7 +54,7 @@ final class ResultPrinter {
     static String retention(dev.cairn.models.result.RetentionResult r) {
         StringBuilder sb = new StringBuilder();
         title(sb, r);
-        long cohorts = r.cohorts().stream().map(c -> c.get("cohort")).distinct().count();
+        long cohorts = r.cohorts().stream().map(dev.cairn.models.result.CohortRow::cohort).distinct().count();
         sb.append(String.format(Locale.ROOT, "retention (%s): %d cohorts, %d arms from %s; %s sampler, %d chains x %,d draws, seed %d%n",
                 r.curve(), cohorts, r.arms().size(), r.data().source(), r.run().method(), r.run().chains(), r.run().draws(),
                 r.run().seed()));
@@ -64,13 +64,11 @@ final class ResultPrinter {
             sb.append(String.format(Locale.ROOT, "  %-24s", "D" + d));
         }
         sb.append('\n');
-        for (Map.Entry<String, Map<String, Object>> e : r.arms().entrySet()) {
+        for (Map.Entry<String, dev.cairn.models.result.RetentionArm> e : r.arms().entrySet()) {
             sb.append(String.format(Locale.ROOT, "%-12s %,10d", e.getKey() + (e.getKey().equals(r.control()) ? "*" : ""),
-                    ((Number) e.getValue().get("installs")).longValue()));
-            @SuppressWarnings("unchecked")
-            Map<String, Object> ret = (Map<String, Object>) e.getValue().get("retention");
+                    e.getValue().installs()));
             for (int d : r.days()) {
-                Interval i = (Interval) ret.get("d" + d);
+                Interval i = e.getValue().retention().get("d" + d);
                 sb.append(String.format(Locale.ROOT, "  %-24s", String.format(Locale.ROOT, "%.1f%% [%.1f, %.1f]",
                         100 * i.median(), 100 * i.lo(), 100 * i.hi())));
             }
@@ -83,28 +81,22 @@ final class ResultPrinter {
                     c.metric().toUpperCase(Locale.ROOT), lift(c), c.probAbove()));
         }
         if (r.ltv() != null) {
-            sb.append(String.format(Locale.ROOT, "%nLTV over %s days:", r.ltv().get("horizon")));
-            r.ltv().forEach((k, v) -> {
-                if (v instanceof Interval i) {
-                    sb.append(String.format(Locale.ROOT, "  %s %s [%s, %s]", k, Numbers.sig(i.median(), 3),
-                            Numbers.sig(i.lo(), 3), Numbers.sig(i.hi(), 3)));
-                }
-            });
+            sb.append(String.format(Locale.ROOT, "%nLTV over %s days:", r.ltv().horizon()));
+            r.ltv().arms().forEach((k, i) -> sb.append(String.format(Locale.ROOT, "  %s %s [%s, %s]", k,
+                    Numbers.sig(i.median(), 3), Numbers.sig(i.lo(), 3), Numbers.sig(i.hi(), 3))));
             sb.append('\n');
         }
         sb.append(String.format(Locale.ROOT, "Drift per cohort: level %s, slope %s (random-walk sd)%n",
                 interval(r.drift().get("level"), 2), interval(r.drift().get("slope"), 2)));
         sb.append("\nD" + r.days().get(Math.min(1, r.days().size() - 1)) + " by cohort (control; p = projected):\n");
         String key = "d" + r.days().get(Math.min(1, r.days().size() - 1));
-        for (Map<String, Object> c : r.cohorts()) {
-            if (!r.control().equals(c.get("arm"))) {
+        for (dev.cairn.models.result.CohortRow c : r.cohorts()) {
+            if (!r.control().equals(c.arm())) {
                 continue;
             }
-            Interval i = (Interval) c.get(key);
-            @SuppressWarnings("unchecked")
-            List<String> projected = (List<String>) c.get("projected");
-            sb.append(String.format(Locale.ROOT, "  %-12s %5.1f%% [%.1f, %.1f]%s%n", c.get("cohort"), 100 * i.median(),
-                    100 * i.lo(), 100 * i.hi(), projected.contains(key) ? " p" : ""));
+            Interval i = c.day(key);
+            sb.append(String.format(Locale.ROOT, "  %-12s %5.1f%% [%.1f, %.1f]%s%n", c.cohort(), 100 * i.median(),
+                    100 * i.lo(), 100 * i.hi(), c.projected().contains(key) ? " p" : ""));
         }
         warningsAndCautions(sb, r);
         return sb.toString();

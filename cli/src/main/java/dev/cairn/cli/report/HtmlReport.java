@@ -255,10 +255,10 @@ public final class HtmlReport {
         for (String a : arms) {
             List<String> labels = new ArrayList<>();
             List<Interval> values = new ArrayList<>();
-            for (Map<String, Object> c : r.cohorts()) {
-                if (a.equals(c.get("arm"))) {
-                    labels.add(String.valueOf(c.get("cohort")));
-                    values.add((Interval) c.get("d" + drift));
+            for (dev.cairn.models.result.CohortRow c : r.cohorts()) {
+                if (a.equals(c.arm())) {
+                    labels.add(c.cohort());
+                    values.add(c.day("d" + drift));
                 }
             }
             sb.append(Charts.intervals(a + ": D" + drift + " by install cohort (drift)", "D" + drift, labels,
@@ -270,9 +270,9 @@ public final class HtmlReport {
             List<Interval> values = new ArrayList<>();
             for (String a : arms) {
                 labels.add(a);
-                values.add((Interval) r.ltv().get(a));
+                values.add(r.ltv().arms().get(a));
             }
-            sb.append(Charts.intervals("LTV over " + r.ltv().get("horizon") + " days", "LTV", labels,
+            sb.append(Charts.intervals("LTV over " + r.ltv().horizon() + " days", "LTV", labels,
                     values.stream().mapToDouble(Interval::lo).toArray(), values.stream().mapToDouble(Interval::median).toArray(),
                     values.stream().mapToDouble(Interval::hi).toArray(), null, null, null));
         }

@@ -12,6 +12,9 @@ import dev.cairn.models.result.DataInfo;
 import dev.cairn.models.result.DiagnosticsSummary;
 import dev.cairn.models.result.Interval;
 import dev.cairn.models.result.Result;
+import dev.cairn.models.result.CohortRow;
+import dev.cairn.models.result.Ltv;
+import dev.cairn.models.result.RetentionArm;
 import dev.cairn.models.result.RetentionResult;
 import dev.cairn.models.result.Run;
 import dev.cairn.models.spec.Spec;
@@ -56,20 +59,17 @@ public final class RetentionFit {
         DiagnosticsReport report = FitSupport.diagnose(draws, spec);
         double level = spec.interval();
 
-        Map<String, Map<String, Object>> armOut = new LinkedHashMap<>();
+        Map<String, RetentionArm> armOut = new LinkedHashMap<>();
         for (int k = 0; k < arms.size(); k++) {
             long installs = 0;
             for (int c = 0; c < data.cohorts().size(); c++) {
                 installs += data.installs(c, k);
             }
-            Map<String, Object> retention = new LinkedHashMap<>();
+            Map<String, Interval> retention = new LinkedHashMap<>();
             for (int d : days) {
                 retention.put(RetentionOutputs.day(d), Interval.of(draws.pooled(RetentionOutputs.day(d) + "[" + arms.get(k) + "]"), level));
             }
-            Map<String, Object> a = new LinkedHashMap<>();
-            a.put("installs", installs);
-            a.put("retention", retention);
-            armOut.put(arms.get(k), a);
+            armOut.put(arms.get(k), new RetentionArm(installs, retention));
         }
         List<String> metrics = new ArrayList<>();
         days.forEach(d -> metrics.add(RetentionOutputs.day(d)));
@@ -78,52 +78,44 @@ public final class RetentionFit {
         }
         List<Comparison> comparisons = SpendAnalysis.compareAll(arms, control, metrics,
                 (metric, arm) -> draws.pooled(metric + "[" + arm + "]"), level);
-        List<Map<String, Object>> cohorts = new ArrayList<>();
+        List<CohortRow> cohorts = new ArrayList<>();
         for (int c = 0; c < data.cohorts().size(); c++) {
             for (int k = 0; k < arms.size(); k++) {
                 if (data.installs(c, k) == 0) {
                     continue;
                 }
                 String cohort = data.cohorts().get(c), arm = arms.get(k);
-                Map<String, Object> row = new LinkedHashMap<>();
-                row.put("cohort", cohort);
-                row.put("arm", arm);
-                row.put("installs", data.installs(c, k));
                 int last = data.lastObservedDay(c, k);
-                row.put("lastObservedDay", last);
+                Map<String, Interval> byDay = new LinkedHashMap<>();
                 List<String> projected = new ArrayList<>();
                 for (int d : days) {
-                    row.put(RetentionOutputs.day(d), Interval.of(draws.pooled(RetentionOutputs.cell(RetentionOutputs.day(d), cohort, arm)), level));
+                    byDay.put(RetentionOutputs.day(d), Interval.of(draws.pooled(RetentionOutputs.cell(RetentionOutputs.day(d), cohort, arm)), level));
                     if (d > last) {
                         projected.add(RetentionOutputs.day(d));
                     }
                 }
-                row.put("projected", projected);
-                if (survival) {
-                    row.put("alpha", Interval.of(draws.pooled(RetentionOutputs.cell("alpha", cohort, arm)), level));
-                    row.put("beta", Interval.of(draws.pooled(RetentionOutputs.cell("beta", cohort, arm)), level));
-                }
-                cohorts.add(row);
+                cohorts.add(new CohortRow(cohort, arm, data.installs(c, k), last, byDay, projected,
+                        survival ? Interval.of(draws.pooled(RetentionOutputs.cell("alpha", cohort, arm)), level) : null,
+                        survival ? Interval.of(draws.pooled(RetentionOutputs.cell("beta", cohort, arm)), level) : null));
             }
         }
         Map<String, Interval> drift = new LinkedHashMap<>();
         drift.put("level", Interval.of(draws.pooled("driftLevel"), level));
         drift.put("slope", Interval.of(draws.pooled("driftSlope"), level));
-        Map<String, Object> ltv = null;
+        Ltv ltv = null;
         if (revenue != null) {
-            ltv = new LinkedHashMap<>();
-            ltv.put("horizon", horizon);
+            Map<String, Interval> byArm = new LinkedHashMap<>();
             for (String a : arms) {
-                ltv.put(a, Interval.of(draws.pooled("ltv[" + a + "]"), level));
+                byArm.put(a, Interval.of(draws.pooled("ltv[" + a + "]"), level));
             }
+            ltv = new Ltv(horizon, byArm);
         }
         List<String> warnings = new ArrayList<>();
         if (!report.converged()) {
             warnings.add(FitSupport.notConverged(report));
         }
         double seconds = Math.round((System.nanoTime() - start) / 1e6) / 1e3;
-        Map<String, Object> priors = new LinkedHashMap<>();
-        priors.put("documented", "RetentionPosterior: " + (survival
+        RetentionResult.Priors priors = new RetentionResult.Priors("RetentionPosterior: " + (survival
                 ? "log alpha_1 ~ N(0, 1.5^2), log beta_1 ~ N(1, 1.5^2)"
                 : "day-7 logit level_1 ~ N(-1.5, 2^2), slope_1 ~ N(-0.6, 1), log kappa ~ N(log 100, 1.5^2)")
                 + "; arm offsets ~ N(0, 1); drift scales ~ half-N(0.25)");
