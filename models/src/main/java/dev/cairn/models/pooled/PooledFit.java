@@ -57,10 +57,7 @@ public final class PooledFit {
             positive.put(name, (double) above / theta.length);
         }
         Interval predictive = Interval.of(draws.pooled(PooledEffectsPosterior.PREDICTIVE), level);
-        Map<String, Object> informed = new LinkedHashMap<>();
-        informed.put("family", "normal");
-        informed.put("mean", predictive.mean());
-        informed.put("sd", predictive.sd());
+        PooledResult.InformedPrior informed = new PooledResult.InformedPrior("normal", predictive.mean(), predictive.sd());
         List<String> warnings = new ArrayList<>();
         if (!report.converged()) {
             warnings.add(FitSupport.notConverged(report));

@@ -18,9 +18,13 @@ import java.util.Map;
     "predictive", "informedPrior", "diagnostics", "run", "priors", "warnings", "cautions"})
 public record PooledResult(String model, String title, boolean converged, double interval, DataInfo data,
                            Map<String, Interval> effects, Map<String, Raw> raw, Map<String, Double> probPositive,
-                           Interval mu, Interval tau, Interval predictive, Map<String, Object> informedPrior,
+                           Interval mu, Interval tau, Interval predictive, InformedPrior informedPrior,
                            DiagnosticsSummary diagnostics, Run run, Object priors, List<String> warnings,
                            List<String> cautions) implements FitResult {
+
+    /** A prior for a new effect, as a spec writes it: {@code {"family": "normal", "mean", "sd"}}. */
+    public record InformedPrior(String family, double mean, double sd) {
+    }
 
     /** An effect as estimated elsewhere. */
     public record Raw(double estimate, double se) {
