@@ -12,6 +12,7 @@ import dev.cairn.samplers.Draws;
 import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.List;
 import org.apache.commons.math3.analysis.MultivariateFunction;
 import org.apache.commons.math3.optim.InitialGuess;
 import org.apache.commons.math3.optim.MaxEval;
@@ -28,7 +29,8 @@ import org.junit.jupiter.api.io.TempDir;
  * Fader & Hardie (2007), "How to project customer retention", Journal of Interactive Marketing
  * 21(1):76-90, high-end segment: of 1,000 customers, 869, 743, 653, 593, 551, 517 and 491 remain after
  * years 1..7 (values from memory). The test's own optimiser finds the shifted-beta-geometric maximum
- * likelihood (alpha ~ 0.668, beta ~ 3.806 as published, also from memory); cairn's posterior medians lie
+ * likelihood; it must equal what R's optim finds on the same data (fixtures/reference/fader-hardie, with
+ * the script and versions) and the published alpha ~ 0.668, beta ~ 3.806 (from memory); cairn's posterior medians lie
  * near it, the ML values lie inside the 95% intervals, and projected later years equal the sBG survival
  * function B(alpha, beta + t) / B(alpha, beta) draw by draw.
  */
@@ -48,12 +50,23 @@ class FaderHardieTest {
         return lp + ALIVE[ALIVE.length - 1] * (Beta.logBeta(a, b + ALIVE.length - 1) - Beta.logBeta(a, b));
     }
 
+    /** alpha and beta at the maximum of the likelihood as R's optim found them (make.R beside the file). */
+    static double[] referenceMl() throws IOException {
+        List<String> rows = Files.readAllLines(Path.of("..", "fixtures", "reference", "fader-hardie", "reference.csv"))
+                .stream().filter(l -> !l.startsWith("#")).toList();
+        String[] v = rows.get(1).split(",");
+        return new double[] {Double.parseDouble(v[0]), Double.parseDouble(v[1])};
+    }
+
     @Test
     void posteriorAgreesWithTheMaximumLikelihoodFitAndTheSurvivalFunction() throws IOException {
         MultivariateFunction f = p -> logLikelihood(Math.exp(p[0]), Math.exp(p[1]));
         PointValuePair ml = new SimplexOptimizer(1e-12, 1e-12).optimize(new MaxEval(10_000), new ObjectiveFunction(f),
                 GoalType.MAXIMIZE, new InitialGuess(new double[] {0, 1}), new NelderMeadSimplex(2));
         double alphaMl = Math.exp(ml.getPoint()[0]), betaMl = Math.exp(ml.getPoint()[1]);
+        double[] reference = referenceMl();
+        assertEquals(reference[0], alphaMl, 1e-5 * reference[0], "ML alpha as R's optim finds it (fixtures/reference/fader-hardie)");
+        assertEquals(reference[1], betaMl, 1e-5 * reference[1], "ML beta as R's optim finds it (fixtures/reference/fader-hardie)");
         assertEquals(0.668, alphaMl, 0.002, "published ML alpha (from memory)");
         assertEquals(3.806, betaMl, 0.01, "published ML beta (from memory)");
 
