@@ -226,12 +226,7 @@ final class ResultPrinter {
     }
 
     private static String label(String metric) {
-        return switch (metric) {
-            case "arpu" -> "ARPU";
-            case "arppu" -> "ARPPU";
-            case "payerRate" -> "payer rate";
-            default -> metric;
-        };
+        return dev.cairn.models.result.Metric.of(metric).label();
     }
 
     private static String interval(Interval i, int digits) {

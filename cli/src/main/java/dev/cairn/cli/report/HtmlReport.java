@@ -7,6 +7,7 @@ import dev.cairn.models.result.Comparison;
 import dev.cairn.models.result.DiagnosticsSummary;
 import dev.cairn.models.result.FitResult;
 import dev.cairn.models.result.Interval;
+import dev.cairn.models.result.Metric;
 import dev.cairn.models.result.PooledResult;
 import dev.cairn.models.result.Result;
 import dev.cairn.models.result.RetentionResult;
@@ -100,28 +101,27 @@ public final class HtmlReport {
         boolean segmented = r.segments() != null;
         List<String> arms = new ArrayList<>(r.arms().keySet());
         boolean spend = r.arms().values().iterator().next().arpu() != null;
-        List<String> metrics = spend ? List.of("arpu", "payerRate", "arppu") : List.of("payerRate");
+        List<Metric> metrics = Metric.spend(spend);
         sb.append("<section id=\"arms\"><h2>Per arm").append(segmented ? " (population: segments weighted by users)" : "")
                 .append("</h2><div class=\"grid\">");
-        for (String metric : metrics) {
+        for (Metric metric : metrics) {
             List<double[]> draws = new ArrayList<>();
             for (String a : arms) {
-                draws.add(d.pooled(column(metric, segmented ? "population/" + a : a)));
+                draws.add(d.pooled(metric.column(segmented ? "population/" + a : a)));
             }
-            sb.append(Charts.histograms("Posterior of " + label(metric), label(metric), arms, draws, null));
+            sb.append(Charts.histograms("Posterior of " + metric.label(), metric.label(), arms, draws, null));
         }
         sb.append("</div><table><tr><th>arm</th><th>users</th><th>payers</th>");
-        for (String metric : metrics) {
-            sb.append("<th>").append(label(metric)).append(" median [lo, hi]</th>");
+        for (Metric metric : metrics) {
+            sb.append("<th>").append(metric.label()).append(" median [lo, hi]</th>");
         }
         sb.append("</tr>");
         for (Map.Entry<String, ArmSummary> e : r.arms().entrySet()) {
             ArmSummary a = e.getValue();
             sb.append("<tr><td>").append(esc(e.getKey())).append(e.getKey().equals(r.control()) ? " (control)" : "")
                     .append("</td><td>").append(a.users()).append("</td><td>").append(a.payers()).append("</td>");
-            for (String metric : metrics) {
-                Interval i = metric.equals("arpu") ? a.arpu() : metric.equals("payerRate") ? a.payerRate() : a.arppu();
-                sb.append("<td>").append(interval(i)).append("</td>");
+            for (Metric metric : metrics) {
+                sb.append("<td>").append(interval(a.of(metric))).append("</td>");
             }
             sb.append("</tr>");
         }
@@ -129,13 +129,14 @@ public final class HtmlReport {
 
         sb.append("<section id=\"comparisons\"><h2>Against ").append(esc(r.control())).append("</h2><div class=\"grid\">");
         for (Comparison c : r.comparisons()) {
-            if (!c.metric().equals(metrics.get(0)) || "typical-segment".equals(c.scope()) || c.lift() == null) {
+            if (!c.metric().equals(metrics.get(0).key()) || "typical-segment".equals(c.scope()) || c.lift() == null) {
                 continue;
             }
             String armKey = segmented ? "population/" + c.arm() : c.arm();
             String controlKey = segmented ? "population/" + c.control() : c.control();
-            double[] x = d.pooled(column(c.metric(), armKey));
-            double[] base = d.pooled(column(c.metric(), controlKey));
+            Metric metric = Metric.of(c.metric());
+            double[] x = d.pooled(metric.column(armKey));
+            double[] base = d.pooled(metric.column(controlKey));
             double[] lift = new double[x.length];
             for (int i = 0; i < x.length; i++) {
                 lift[i] = x[i] / base[i] - 1;
@@ -191,7 +192,7 @@ public final class HtmlReport {
                 List<double[]> rows = new ArrayList<>();
                 for (Map.Entry<String, SegmentSummary> e : r.segments().entrySet()) {
                     for (Comparison c : e.getValue().comparisons()) {
-                        if (c.arm().equals(a) && c.metric().equals(metrics.get(0)) && c.lift() != null) {
+                        if (c.arm().equals(a) && c.metric().equals(metrics.get(0).key()) && c.lift() != null) {
                             labels.add(e.getKey());
                             rows.add(new double[] {c.lift().lo(), c.lift().median(), c.lift().hi(),
                                 c.rawLift() == null ? Double.NaN : c.rawLift()});
@@ -202,7 +203,7 @@ public final class HtmlReport {
                 double[] mid = rows.stream().mapToDouble(x -> x[1]).toArray();
                 double[] hi = rows.stream().mapToDouble(x -> x[2]).toArray();
                 double[] raw = rows.stream().mapToDouble(x -> x[3]).toArray();
-                sb.append(Charts.intervals(a + ": " + label(metrics.get(0)) + " lift by segment", "lift", labels, lo, mid, hi,
+                sb.append(Charts.intervals(a + ": " + metrics.get(0).label() + " lift by segment", "lift", labels, lo, mid, hi,
                         raw, "raw (segment alone)", 0.0));
             }
             sb.append("</div></section>\n");
@@ -317,17 +318,8 @@ public final class HtmlReport {
                 .append(", bulk- and tail-ESS &ge; ").append(fmt(need, 0)).append(" per chain.</p></section>\n");
     }
 
-    static String column(String metric, String scopeOrArm) {
-        return metric + "[" + scopeOrArm + "]";
-    }
-
     static String label(String metric) {
-        return switch (metric) {
-            case "arpu" -> "ARPU";
-            case "arppu" -> "ARPPU";
-            case "payerRate" -> "payer rate";
-            default -> metric;
-        };
+        return Metric.of(metric).label();
     }
 
     static String esc(String s) {

@@ -14,6 +14,7 @@ import dev.cairn.models.result.Interval;
 import dev.cairn.models.result.Result;
 import dev.cairn.models.result.CohortRow;
 import dev.cairn.models.result.Ltv;
+import dev.cairn.models.result.Metric;
 import dev.cairn.models.result.RetentionArm;
 import dev.cairn.models.result.RetentionResult;
 import dev.cairn.models.result.Run;
@@ -74,7 +75,7 @@ public final class RetentionFit {
         List<String> metrics = new ArrayList<>();
         days.forEach(d -> metrics.add(RetentionOutputs.day(d)));
         if (revenue != null) {
-            metrics.add("ltv");
+            metrics.add(Metric.LTV.key());
         }
         List<Comparison> comparisons = SpendAnalysis.compareAll(arms, control, metrics,
                 (metric, arm) -> draws.pooled(metric + "[" + arm + "]"), level);

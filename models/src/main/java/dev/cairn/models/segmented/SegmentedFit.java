@@ -13,6 +13,7 @@ import dev.cairn.models.result.Comparison;
 import dev.cairn.models.result.DataInfo;
 import dev.cairn.models.result.DiagnosticsSummary;
 import dev.cairn.models.result.Interval;
+import dev.cairn.models.result.Metric;
 import dev.cairn.models.result.Result;
 import dev.cairn.models.result.Run;
 import dev.cairn.models.result.SegmentSummary;
@@ -59,7 +60,7 @@ public final class SegmentedFit {
                 + "values (log-spend sums) or give tighter priors");
         DiagnosticsReport report = FitSupport.diagnose(draws, spec);
         double level = spec.interval();
-        List<String> metrics = data.hasSpend() ? List.of("arpu", "payerRate", "arppu") : List.of("payerRate");
+        List<String> metrics = Metric.spend(data.hasSpend()).stream().map(Metric::key).toList();
 
         Map<String, long[]> totals = data.armTotals();
         Map<String, ArmSummary> overall = new LinkedHashMap<>();
@@ -120,12 +121,12 @@ public final class SegmentedFit {
 
     private static ArmSummary summary(Draws draws, String scope, String arm, long users, long payers,
                                       SegmentedSpendData data, double level) {
-        Interval rate = Interval.of(draws.pooled(SegmentedOutputs.cell("payerRate", scope, arm)), level);
+        Interval rate = Interval.of(draws.pooled(SegmentedOutputs.cell(Metric.PAYER_RATE.key(), scope, arm)), level);
         if (!data.hasSpend()) {
             return new ArmSummary(users, payers, null, rate, null);
         }
-        return new ArmSummary(users, payers, Interval.of(draws.pooled(SegmentedOutputs.cell("arpu", scope, arm)), level),
-                rate, Interval.of(draws.pooled(SegmentedOutputs.cell("arppu", scope, arm)), level));
+        return new ArmSummary(users, payers, Interval.of(draws.pooled(SegmentedOutputs.cell(Metric.ARPU.key(), scope, arm)), level),
+                rate, Interval.of(draws.pooled(SegmentedOutputs.cell(Metric.ARPPU.key(), scope, arm)), level));
     }
 
     /**
@@ -142,7 +143,7 @@ public final class SegmentedFit {
             return Double.NaN;
         }
         double rate = (double) s.payers() / s.users();
-        if (metric.equals("payerRate")) {
+        if (metric.equals(Metric.PAYER_RATE.key())) {
             return rate;
         }
         double arppu;
@@ -154,6 +155,6 @@ public final class SegmentedFit {
         } else {
             arppu = Double.NaN;
         }
-        return metric.equals("arppu") ? arppu : rate * arppu;
+        return metric.equals(Metric.ARPPU.key()) ? arppu : rate * arppu;
     }
 }

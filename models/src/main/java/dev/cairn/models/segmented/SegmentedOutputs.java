@@ -1,5 +1,7 @@
 package dev.cairn.models.segmented;
 
+import dev.cairn.models.result.Metric;
+
 import dev.cairn.samplers.Draws;
 import java.util.ArrayList;
 import java.util.List;
@@ -48,10 +50,10 @@ final class SegmentedOutputs {
         }
         for (String scope : new String[] {TYPICAL, POPULATION}) {
             for (String a : arms) {
-                names.add(cell("payerRate", scope, a));
+                names.add(cell(Metric.PAYER_RATE.key(), scope, a));
                 if (cells.spend) {
-                    names.add(cell("arppu", scope, a));
-                    names.add(cell("arpu", scope, a));
+                    names.add(cell(Metric.ARPPU.key(), scope, a));
+                    names.add(cell(Metric.ARPU.key(), scope, a));
                 }
             }
         }
@@ -60,11 +62,11 @@ final class SegmentedOutputs {
                 names.add("logSpendSd[" + s + "]");
             }
             for (String a : arms) {
-                names.add(cell("payerRate", s, a));
+                names.add(cell(Metric.PAYER_RATE.key(), s, a));
                 if (cells.spend) {
                     names.add(cell("logSpendMean", s, a));
-                    names.add(cell("arppu", s, a));
-                    names.add(cell("arpu", s, a));
+                    names.add(cell(Metric.ARPPU.key(), s, a));
+                    names.add(cell(Metric.ARPU.key(), s, a));
                 }
             }
         }

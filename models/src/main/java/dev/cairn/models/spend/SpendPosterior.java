@@ -1,5 +1,7 @@
 package dev.cairn.models.spend;
 
+import dev.cairn.models.result.Metric;
+
 import dev.cairn.models.data.ArmStats;
 import dev.cairn.models.data.SpendData;
 import dev.cairn.samplers.Cancellation;
@@ -51,11 +53,11 @@ import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
  * <p>Conversion-only data (no spend) keep only p_k: the Beta-Binomial model.
  */
 public final class SpendPosterior {
-    public static final String PAYER_RATE = "payerRate";
+    public static final String PAYER_RATE = Metric.PAYER_RATE.key();
     public static final String LOG_SPEND_MEAN = "logSpendMean";
     public static final String LOG_SPEND_SD = "logSpendSd";
-    public static final String ARPPU = "arppu";
-    public static final String ARPU = "arpu";
+    public static final String ARPPU = Metric.ARPPU.key();
+    public static final String ARPU = Metric.ARPU.key();
 
     private SpendPosterior() {
     }
