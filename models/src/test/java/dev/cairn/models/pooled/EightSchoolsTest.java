@@ -154,17 +154,17 @@ class EightSchoolsTest {
         double[] probs = {0.025, 0.5, 0.975};
         for (String row : rows.subList(1, rows.size())) {
             String[] v = row.split(",");
-            String stanName = v[0].trim();
-            String name = stanName.equals("mu") ? PooledEffectsPosterior.MU : stanName.equals("tau")
+            String quantity = v[0].trim();
+            String name = quantity.equals("mu") ? PooledEffectsPosterior.MU : quantity.equals("tau")
                     ? PooledEffectsPosterior.TAU
-                    : PooledEffectsPosterior.effect(NAMES.get(Integer.parseInt(stanName.replaceAll("\\D", "")) - 1));
+                    : PooledEffectsPosterior.effect(NAMES.get(Integer.parseInt(quantity.replaceAll("\\D", "")) - 1));
             for (int i = 0; i < probs.length; i++) {
-                double stan = Double.parseDouble(v[1 + i].trim()), stanMcse = Double.parseDouble(v[4 + i].trim());
+                double reference = Double.parseDouble(v[1 + i].trim()), referenceMcse = Double.parseDouble(v[4 + i].trim());
                 double ours = Quantiles.of(d.pooled(name), probs[i]);
                 double mcse = Mcse.quantile(d.column(name), probs[i]);
-                double tolerance = 4 * Math.hypot(mcse, stanMcse);
-                assertTrue(Math.abs(ours - stan) <= tolerance, name + " q" + probs[i] + ": cairn " + ours + ", Stan " + stan
-                        + " (tolerance " + tolerance + ")");
+                double tolerance = 4 * Math.hypot(mcse, referenceMcse);
+                assertTrue(Math.abs(ours - reference) <= tolerance, name + " q" + probs[i] + ": cairn " + ours
+                        + ", reference " + reference + " (tolerance " + tolerance + ")");
             }
         }
     }
