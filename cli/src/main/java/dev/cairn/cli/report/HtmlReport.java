@@ -137,10 +137,7 @@ public final class HtmlReport {
             Metric metric = Metric.of(c.metric());
             double[] x = d.pooled(metric.column(armKey));
             double[] base = d.pooled(metric.column(controlKey));
-            double[] lift = new double[x.length];
-            for (int i = 0; i < x.length; i++) {
-                lift[i] = x[i] / base[i] - 1;
-            }
+            double[] lift = dev.cairn.models.decision.Decisions.liftDraws(x, base);
             sb.append(Charts.lift(String.format(Locale.ROOT, "%s %s lift: P(above) %.3f", c.arm(), label(c.metric()),
                     c.probAbove()), lift, c.lift().lo(), c.lift().hi()));
         }

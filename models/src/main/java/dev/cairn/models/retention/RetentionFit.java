@@ -77,7 +77,7 @@ public final class RetentionFit {
         if (revenue != null) {
             metrics.add(Metric.LTV.key());
         }
-        List<Comparison> comparisons = SpendAnalysis.compareAll(arms, control, metrics,
+        List<Comparison> comparisons = dev.cairn.models.decision.Decisions.compareAll(arms, control, metrics,
                 (metric, arm) -> draws.pooled(metric + "[" + arm + "]"), level);
         List<CohortRow> cohorts = new ArrayList<>();
         for (int c = 0; c < data.cohorts().size(); c++) {

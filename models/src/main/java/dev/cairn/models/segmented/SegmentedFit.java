@@ -70,7 +70,7 @@ public final class SegmentedFit {
         List<Comparison> comparisons = new ArrayList<>();
         for (String scope : new String[] {SegmentedOutputs.POPULATION, SegmentedOutputs.TYPICAL}) {
             String label = scope.equals(SegmentedOutputs.TYPICAL) ? "typical-segment" : "population";
-            SpendAnalysis.compareAll(arms, control, metrics,
+            dev.cairn.models.decision.Decisions.compareAll(arms, control, metrics,
                             (metric, arm) -> draws.pooled(SegmentedOutputs.cell(metric, scope, arm)), level)
                     .forEach(c -> comparisons.add(c.withScope(label, null)));
         }
@@ -92,7 +92,7 @@ public final class SegmentedFit {
                 }
                 cells.put(a, summary(draws, seg, a, c == null ? 0 : c.users(), c == null ? 0 : c.payers(), data, level));
             }
-            List<Comparison> segComparisons = SpendAnalysis.compareAll(arms, control, metrics,
+            List<Comparison> segComparisons = dev.cairn.models.decision.Decisions.compareAll(arms, control, metrics,
                             (metric, arm) -> draws.pooled(SegmentedOutputs.cell(metric, seg, arm)), level).stream()
                     .map(c -> c.withScope(null, rawLift(c.metric(), data.cell(seg, c.arm()), data.cell(seg, control))))
                     .toList();
@@ -103,7 +103,7 @@ public final class SegmentedFit {
         }
         Map<String, Map<String, Double>> probBest = new LinkedHashMap<>();
         for (String metric : metrics) {
-            probBest.put(metric, SpendAnalysis.probBest(arms,
+            probBest.put(metric, dev.cairn.models.decision.Decisions.probBest(arms,
                     arm -> draws.pooled(SegmentedOutputs.cell(metric, SegmentedOutputs.POPULATION, arm))));
         }
         double seconds = Math.round((System.nanoTime() - start) / 1e6) / 1e3;

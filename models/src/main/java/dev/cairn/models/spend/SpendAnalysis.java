@@ -1,6 +1,7 @@
 package dev.cairn.models.spend;
 
 import dev.cairn.models.data.ArmStats;
+import dev.cairn.models.decision.Decisions;
 import dev.cairn.models.data.SpendData;
 import dev.cairn.models.result.ArmSummary;
 import dev.cairn.models.result.Check;
@@ -81,82 +82,17 @@ public final class SpendAnalysis {
 
     /** Every non-control arm against the control on every metric, draw by draw. */
     public static List<Comparison> comparisons(Draws draws, SpendData data, String control, double level) {
-        return compareAll(data.armNames(), control, metrics(data),
+        return Decisions.compareAll(data.armNames(), control, metrics(data),
                 (metric, arm) -> draws.pooled(SpendPosterior.name(metric, arm)), level);
-    }
-
-    /**
-     * One arm against the control, draw by draw. The lift is left out (null) when the control's value is 0 in
-     * some draw — no retention at all, say — since a ratio to 0 has no value; the rest stays.
-     */
-    public static Comparison compare(String arm, String control, String metric, double[] x, double[] c, double level) {
-        double[] lift = new double[x.length];
-        double[] difference = new double[x.length];
-        double above = 0;
-        double loss = 0;
-        boolean ratio = true;
-        for (int i = 0; i < x.length; i++) {
-            ratio &= c[i] > 0;
-            lift[i] = x[i] / c[i] - 1;
-            difference[i] = x[i] - c[i];
-            above += x[i] > c[i] ? 1 : 0;
-            loss += Math.max(c[i] - x[i], 0);
-        }
-        return new Comparison(arm, control, metric, ratio ? Interval.of(lift, level) : null, Interval.of(difference, level),
-                above / x.length, loss / x.length);
     }
 
     /** P(best) per metric: the share of draws in which each arm has the highest value of the metric. */
     public static Map<String, Map<String, Double>> probBest(Draws draws, SpendData data) {
         Map<String, Map<String, Double>> out = new LinkedHashMap<>();
         for (String metric : metrics(data)) {
-            out.put(metric, probBest(data.armNames(), arm -> draws.pooled(SpendPosterior.name(metric, arm))));
+            out.put(metric, Decisions.probBest(data.armNames(), arm -> draws.pooled(SpendPosterior.name(metric, arm))));
         }
         return out;
-    }
-
-    /** P(best) over the arms, given each arm's draws of one metric (all of the same length). */
-    public static Map<String, Double> probBest(List<String> arms, java.util.function.Function<String, double[]> drawsOf) {
-        double[][] values = new double[arms.size()][];
-        for (int k = 0; k < arms.size(); k++) {
-            values[k] = drawsOf.apply(arms.get(k));
-        }
-        long[] best = new long[arms.size()];
-        int n = values[0].length;
-        for (int i = 0; i < n; i++) {
-            int argmax = 0;
-            for (int k = 1; k < arms.size(); k++) {
-                if (values[k][i] > values[argmax][i]) {
-                    argmax = k;
-                }
-            }
-            best[argmax]++;
-        }
-        Map<String, Double> m = new LinkedHashMap<>();
-        for (int k = 0; k < arms.size(); k++) {
-            m.put(arms.get(k), (double) best[k] / n);
-        }
-        return m;
-    }
-
-    /** Every non-control arm against the control on each metric, reading draws through {@code drawsOf(metric, arm)}. */
-    public static List<Comparison> compareAll(List<String> arms, String control, List<String> metrics,
-                                              java.util.function.BiFunction<String, String, double[]> drawsOf,
-                                              double level) {
-        List<String[]> pairs = new ArrayList<>();
-        for (String a : arms) {
-            if (a.equals(control)) {
-                continue;
-            }
-            for (String metric : metrics) {
-                pairs.add(new String[] {a, metric});
-            }
-        }
-        return new ArrayList<>(inParallel(pairs.size(), k -> {
-            String a = pairs.get(k)[0];
-            String metric = pairs.get(k)[1];
-            return compare(a, control, metric, drawsOf.apply(metric, a), drawsOf.apply(metric, control), level);
-        }));
     }
 
     /**

@@ -1,0 +1,99 @@
+package dev.cairn.models.decision;
+
+import dev.cairn.models.result.Comparison;
+import dev.cairn.models.result.Interval;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * What the models say about arms against each other, computed one way for every model and for the report:
+ * draw by draw comparisons with the control (lift, difference, P(above), expected loss), P(best) over the
+ * arms, and the lift draws a chart shows. Comparisons of several arms and metrics run in parallel; each
+ * depends on its own draws only, so the result does not depend on the number of threads.
+ */
+public final class Decisions {
+    private Decisions() {
+    }
+
+    /**
+     * One arm against the control, draw by draw. The lift is left out (null) when the control's value is 0 in
+     * some draw — no retention at all, say — since a ratio to 0 has no value; the rest stays.
+     */
+    public static Comparison compare(String arm, String control, String metric, double[] x, double[] c, double level) {
+        double[] lift = new double[x.length];
+        double[] difference = new double[x.length];
+        double above = 0;
+        double loss = 0;
+        boolean ratio = true;
+        for (int i = 0; i < x.length; i++) {
+            ratio &= c[i] > 0;
+            lift[i] = x[i] / c[i] - 1;
+            difference[i] = x[i] - c[i];
+            above += x[i] > c[i] ? 1 : 0;
+            loss += Math.max(c[i] - x[i], 0);
+        }
+        return new Comparison(arm, control, metric, ratio ? Interval.of(lift, level) : null, Interval.of(difference, level),
+                above / x.length, loss / x.length);
+    }
+
+    /**
+     * The lift of each draw, x / control - 1, for charts; NaN in a draw where the control is 0.
+     *
+     * @param x       the arm's draws
+     * @param control the control's draws, as many
+     * @return the lift per draw
+     */
+    public static double[] liftDraws(double[] x, double[] control) {
+        double[] lift = new double[x.length];
+        for (int i = 0; i < x.length; i++) {
+            lift[i] = control[i] > 0 ? x[i] / control[i] - 1 : Double.NaN;
+        }
+        return lift;
+    }
+
+    /** P(best) over the arms, given each arm's draws of one metric (all of the same length). */
+    public static Map<String, Double> probBest(List<String> arms, java.util.function.Function<String, double[]> drawsOf) {
+        double[][] values = new double[arms.size()][];
+        for (int k = 0; k < arms.size(); k++) {
+            values[k] = drawsOf.apply(arms.get(k));
+        }
+        long[] best = new long[arms.size()];
+        int n = values[0].length;
+        for (int i = 0; i < n; i++) {
+            int argmax = 0;
+            for (int k = 1; k < arms.size(); k++) {
+                if (values[k][i] > values[argmax][i]) {
+                    argmax = k;
+                }
+            }
+            best[argmax]++;
+        }
+        Map<String, Double> m = new LinkedHashMap<>();
+        for (int k = 0; k < arms.size(); k++) {
+            m.put(arms.get(k), (double) best[k] / n);
+        }
+        return m;
+    }
+
+    /** Every non-control arm against the control on each metric, reading draws through {@code drawsOf(metric, arm)}. */
+    public static List<Comparison> compareAll(List<String> arms, String control, List<String> metrics,
+                                              java.util.function.BiFunction<String, String, double[]> drawsOf,
+                                              double level) {
+        List<String[]> pairs = new ArrayList<>();
+        for (String a : arms) {
+            if (a.equals(control)) {
+                continue;
+            }
+            for (String metric : metrics) {
+                pairs.add(new String[] {a, metric});
+            }
+        }
+        return new ArrayList<>(java.util.stream.IntStream.range(0, pairs.size()).parallel().mapToObj(k -> {
+            String a = pairs.get(k)[0];
+            String metric = pairs.get(k)[1];
+            return compare(a, control, metric, drawsOf.apply(metric, a), drawsOf.apply(metric, control), level);
+        }).toList());
+    }
+}
