@@ -5,11 +5,10 @@ import dev.cairn.samplers.Draws;
 
 /**
  * A finished fit: the result (what result.json holds), every draw (derived quantities included), and
- * figures for plots that the result does not carry (replicated check statistics, retention curve bands);
- * {@code figures} maps a name to a double[] or double[][].
+ * figures for plots that the result does not carry (replicated check statistics, retention curve bands).
  */
-public record FitOutcome(FitResult result, Draws draws, java.util.Map<String, Object> figures) {
+public record FitOutcome(FitResult result, Draws draws, Figures figures) {
     public FitOutcome(FitResult result, Draws draws) {
-        this(result, draws, java.util.Map.of());
+        this(result, draws, Figures.NONE);
     }
 }

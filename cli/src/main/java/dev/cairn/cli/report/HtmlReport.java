@@ -168,8 +168,8 @@ public final class HtmlReport {
                     + "statistic in data sets replicated from the posterior; the dashed line is the observed value. A "
                     + "line far in a tail means the model does not reproduce it.</p><div class=\"grid\">");
             for (Check c : r.checks()) {
-                Object rep = outcome.figures().get(c.arm() + "/" + c.statistic());
-                if (rep instanceof double[] values) {
+                double[] values = outcome.figures().replicated().get(c.arm() + "/" + c.statistic());
+                if (values != null) {
                     sb.append(Charts.histograms(String.format(Locale.ROOT, "%s: %s (p = %.3f)%s", c.arm(), c.statistic(),
                                     c.pValue(), c.misfit() ? " MISFIT" : ""), c.statistic(), List.of("replicated"),
                             List.of(values), new double[] {c.observed()}));
@@ -241,9 +241,10 @@ public final class HtmlReport {
         List<double[]> observed = new ArrayList<>();
         int[] last = new int[arms.size()];
         for (int k = 0; k < arms.size(); k++) {
-            bands.add((double[][]) outcome.figures().get("curve/" + arms.get(k)));
-            observed.add((double[]) outcome.figures().get("observed/" + arms.get(k)));
-            last[k] = (int) ((double[]) outcome.figures().get("lastDay/" + arms.get(k)))[0];
+            dev.cairn.models.Figures.Curve curve = outcome.figures().curves().get(arms.get(k));
+            bands.add(curve.band());
+            observed.add(curve.observed());
+            last[k] = curve.lastDay();
         }
         sb.append("<section id=\"retention\"><h2>Retention curves (").append(esc(r.curve())).append(")</h2>")
                 .append("<p class=\"note\">Install-weighted over cohorts: median and ").append(fmt(100 * r.interval(), 0))

@@ -134,7 +134,7 @@ public final class RetentionFit {
      * largest of the LTV horizon, the requested days and half again the last observed day), the observed share per day pooled over the cohorts that
      * reached it, and the last day any cohort reached.
      */
-    static java.util.Map<String, Object> curveBands(Draws internal, RetentionPosterior m, CohortDays data, List<Integer> days,
+    static dev.cairn.models.Figures curveBands(Draws internal, RetentionPosterior m, CohortDays data, List<Integer> days,
                                                     double level, int horizon) {
         // Plot beyond the data: to the LTV horizon, the largest requested day, or half again the last observed day.
         int maxDay = Math.max(horizon, days.stream().mapToInt(Integer::intValue).max().orElse(30));
@@ -146,7 +146,7 @@ public final class RetentionFit {
         int total = internal.chains() * internal.iterations();
         int step = Math.max(1, total / 400);
         int kept = (total + step - 1) / step;
-        java.util.Map<String, Object> out = new LinkedHashMap<>();
+        java.util.Map<String, dev.cairn.models.Figures.Curve> out = new LinkedHashMap<>();
         double[] x = new double[m.size], coordinates = new double[m.size];
         double[][] columns = new double[m.size][];
         for (int i = 0; i < m.size; i++) {
@@ -183,7 +183,6 @@ public final class RetentionFit {
                 Interval i = Interval.of(byDay[t], level);
                 band[t] = new double[] {i.mean(), i.lo(), i.median(), i.hi()};
             }
-            out.put("curve/" + data.arms().get(k), band);
             double[] observed = new double[maxDay + 1];
             java.util.Arrays.fill(observed, Double.NaN);
             double[] active = new double[maxDay + 1], installed = new double[maxDay + 1];
@@ -200,10 +199,9 @@ public final class RetentionFit {
                     observed[t] = active[t] / installed[t];
                 }
             }
-            out.put("observed/" + data.arms().get(k), observed);
-            out.put("lastDay/" + data.arms().get(k), new double[] {last});
+            out.put(data.arms().get(k), new dev.cairn.models.Figures.Curve(band, observed, last));
         }
-        return out;
+        return new dev.cairn.models.Figures(java.util.Map.of(), out);
     }
 
     /** Revenue per active day per arm and draw: a fixed number, or R + se z from a table (seeded). */

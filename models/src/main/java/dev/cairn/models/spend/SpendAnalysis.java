@@ -115,11 +115,11 @@ public final class SpendAnalysis {
      * arms run in parallel and the checks are the same on any number of threads.
      */
     public static List<Check> checks(Draws draws, SpendData data, long seed, int firstStream,
-                                     Map<String, Object> replicatedOut) {
+                                     Map<String, double[]> replicatedOut) {
         if (!data.hasSpend()) {
             return new ArrayList<>();
         }
-        List<Map<String, Object>> kept = new ArrayList<>();
+        List<Map<String, double[]>> kept = new ArrayList<>();
         for (int k = 0; k < data.arms().size(); k++) {
             kept.add(new LinkedHashMap<>());
         }
@@ -136,7 +136,7 @@ public final class SpendAnalysis {
     }
 
     private static List<Check> checks(Draws draws, SpendData data, ArmStats a, UniformRandomProvider rng,
-                                      Map<String, Object> replicatedOut) {
+                                      Map<String, double[]> replicatedOut) {
         List<Check> out = new ArrayList<>();
         int total = draws.chains() * draws.iterations();
         int r = Math.min(REPLICATIONS, total);

@@ -60,8 +60,8 @@ public final class SpendFit {
         DiagnosticsReport report = FitSupport.diagnose(draws, spec);
 
         double level = spec.interval();
-        java.util.Map<String, Object> figures = new java.util.LinkedHashMap<>();
-        List<Check> checks = SpendAnalysis.checks(draws, data, s.seed(), s.chains(), figures);
+        java.util.Map<String, double[]> replicated = new java.util.LinkedHashMap<>();
+        List<Check> checks = SpendAnalysis.checks(draws, data, s.seed(), s.chains(), replicated);
         List<String> warnings = new ArrayList<>(data.warnings());
         warnings.addAll(SpendAnalysis.warnings(checks));
         if (!report.converged()) {
@@ -83,7 +83,7 @@ public final class SpendFit {
                 new Run(method, settings.chains(), settings.warmup(), settings.draws(), settings.thin(), settings.seed(),
                         seconds, Version.get()),
                 priors, warnings, Result.CAUTIONS);
-        return new FitOutcome(result, draws, figures);
+        return new FitOutcome(result, draws, new dev.cairn.models.Figures(replicated, java.util.Map.of()));
     }
 
     /** auto: exact for conjugate priors or conversion-only data, slice sampling otherwise. */
