@@ -27,6 +27,10 @@ public final class ChainRunner {
         this.cancellation = cancellation;
     }
 
+    /**
+     * @param settings chains, warmup, draws, thinning, seed and threads
+     * @return a runner with no progress report and no cancellation
+     */
     public static ChainRunner of(RunSettings settings) {
         if (settings == null) {
             throw new IllegalArgumentException("run settings must not be null");
@@ -34,19 +38,37 @@ public final class ChainRunner {
         return new ChainRunner(settings, Progress.NONE, new Cancellation());
     }
 
+    /**
+     * @param p told of iterations done, for a progress display
+     * @return this runner reporting to {@code p}
+     */
     public ChainRunner withProgress(Progress p) {
         return new ChainRunner(settings, p == null ? Progress.NONE : p, cancellation);
     }
 
+    /**
+     * @param c checked between iterations; the run stops when it is cancelled
+     * @return this runner watching {@code c}
+     */
     public ChainRunner withCancellation(Cancellation c) {
         return new ChainRunner(settings, progress, c == null ? new Cancellation() : c);
     }
 
+    /** @return the run's settings */
     public RunSettings settings() {
         return settings;
     }
 
-    /** MCMC: warmup with adaptation, then kept (thinned) draws with tuning frozen. */
+    /**
+     * MCMC: warmup with adaptation, then kept (thinned) draws with tuning frozen. Chain c uses the random
+     * stream of (seed, c) only, so the draws are the same on any number of threads.
+     *
+     * @param target the log density
+     * @param sweep  the steps of one iteration
+     * @param init   the chains' starting points (redrawn while their density is zero)
+     * @return the kept draws of every coordinate, on the natural scale
+     * @throws NoStartException when a chain finds no starting point of positive density
+     */
     public Draws run(Target target, Sweep sweep, Initializer init) {
         Parameters p = target.parameters();
         int d = p.size();
@@ -83,7 +105,13 @@ public final class ChainRunner {
         return Draws.adopt(p.names(), out);
     }
 
-    /** Independent draws from a closed-form posterior; warmup and thinning do not apply. */
+    /**
+     * Independent draws from a closed-form posterior; warmup and thinning do not apply.
+     *
+     * @param parameters the coordinates drawn
+     * @param sampler    makes each chain's source of exact draws from its random stream
+     * @return the draws
+     */
     public Draws runExact(Parameters parameters, ExactSampler sampler) {
         int d = parameters.size();
         double[][][] out = new double[settings.chains()][d][settings.draws()];

@@ -32,6 +32,12 @@ public final class Draws {
     /**
      * Draws from arrays laid out as values[chain][column][iteration]; the arrays are copied.
      * Every chain must have the same number of iterations, at least one.
+     *
+     * @param names  the column names, distinct, in column order
+     * @param values values[chain][column][iteration]
+     * @return the draws
+     * @throws IllegalArgumentException when there is no column, chain or iteration, a name repeats, or the
+     *                                  chains differ in length
      */
     public static Draws of(List<String> names, double[][][] values) {
         if (names.isEmpty()) {
@@ -102,23 +108,36 @@ public final class Draws {
         return new Draws(names, values);
     }
 
+    /** @return the column names, in column order */
     public List<String> names() {
         return names;
     }
 
+    /** @return how many chains */
     public int chains() {
         return values.length;
     }
 
+    /** @return draws per chain */
     public int iterations() {
         return iterations;
     }
 
+    /**
+     * @param name a column name
+     * @return whether there is a column of that name
+     */
     public boolean has(String name) {
         return index.containsKey(name);
     }
 
-    /** The draws of one column as [chain][iteration] (a copy). */
+    /**
+     * The draws of one column as [chain][iteration] (a copy).
+     *
+     * @param name the column
+     * @return its draws per chain
+     * @throws IllegalArgumentException when there is no such column
+     */
     public double[][] column(String name) {
         int j = indexOf(name);
         double[][] out = new double[values.length][];
@@ -128,7 +147,13 @@ public final class Draws {
         return out;
     }
 
-    /** All draws of one column, chains one after the other (a copy). */
+    /**
+     * All draws of one column, chains one after the other (a copy).
+     *
+     * @param name the column
+     * @return its draws, chain 1 first
+     * @throws IllegalArgumentException when there is no such column
+     */
     public double[] pooled(String name) {
         int j = indexOf(name);
         double[] out = new double[values.length * iterations];
@@ -138,6 +163,14 @@ public final class Draws {
         return out;
     }
 
+    /**
+     * One draw of one column.
+     *
+     * @param chain     0-based chain
+     * @param iteration 0-based iteration within the chain
+     * @param name      the column
+     * @return the value
+     */
     public double value(int chain, int iteration, String name) {
         return values[chain][indexOf(name)][iteration];
     }
@@ -152,7 +185,13 @@ public final class Draws {
         double of(double[] draw);
     }
 
-    /** These draws plus a column computed draw by draw. */
+    /**
+     * These draws plus a column computed draw by draw.
+     *
+     * @param name the new column's name, not yet used
+     * @param f    the quantity, from one draw's values in column order
+     * @return new draws with the column added last
+     */
     public Draws withDerived(String name, Derived f) {
         return withDerived(List.of(name), List.of(f));
     }
@@ -160,6 +199,10 @@ public final class Draws {
     /**
      * These draws plus several columns computed draw by draw, in one pass: each draw's values are gathered
      * once for all of them, so adding d columns to k costs (k + d) per draw, not d times k.
+     *
+     * @param added the new columns' names, distinct and not yet used
+     * @param fs    their quantities, as many as names, each from one draw's values in column order
+     * @return new draws with the columns added last, in the order given
      */
     public Draws withDerived(List<String> added, List<Derived> fs) {
         if (added.size() != fs.size()) {
@@ -193,7 +236,12 @@ public final class Draws {
         return new Draws(newNames, out);
     }
 
-    /** Only the named columns, in the order given. */
+    /**
+     * Only the named columns, in the order given (the arrays are shared, not copied).
+     *
+     * @param columns the columns to keep
+     * @return the selected draws
+     */
     public Draws select(List<String> columns) {
         double[][][] out = new double[values.length][columns.size()][];
         for (int j = 0; j < columns.size(); j++) {

@@ -50,6 +50,13 @@ public final class DrawsCsv {
         }
     }
 
+    /**
+     * Writes draws as text: the header, then one row per draw, chain by chain.
+     *
+     * @param draws the draws
+     * @param out   where the text goes (flushed, not closed)
+     * @throws UncheckedIOException when writing fails
+     */
     public static void write(Draws draws, Writer out) {
         try {
             List<String> header = new ArrayList<>(draws.names().size() + 2);
@@ -90,6 +97,10 @@ public final class DrawsCsv {
     /**
      * Reads draws into memory. Chains are taken in the order they first appear; every chain must have the
      * same number of rows and each chain's rows must be contiguous.
+     *
+     * @param in the draws text
+     * @return the draws
+     * @throws FormatException for malformed text, naming the line and column
      */
     public static Draws read(Reader in) {
         try (Rows rows = new Rows(in)) {
@@ -210,7 +221,13 @@ public final class DrawsCsv {
             return chainIndex;
         }
 
-        /** Reads the next row's values into {@code row}; false at the end of the text. */
+        /**
+         * Reads the next row's values into {@code row}.
+         *
+         * @param row receives the row's values, one per parameter
+         * @return false at the end of the text
+         * @throws FormatException for a malformed row, naming its line
+         */
         public boolean next(double[] row) {
             CSVRecord r = record();
             if (r == null) {

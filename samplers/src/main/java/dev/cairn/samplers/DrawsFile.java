@@ -45,7 +45,11 @@ public final class DrawsFile implements AutoCloseable {
     /**
      * Reads draws text, spilling the values into a new file in {@code spillFolder}.
      *
+     * @param in          the draws text
+     * @param spillFolder where the spill file is made (deleted on {@link #close()}, or when reading fails)
+     * @return the file's draws, to be read by {@link #columns}
      * @throws DrawsCsv.FormatException for malformed text, naming the line
+     * @throws IOException              when the spill file cannot be written
      */
     public static DrawsFile read(Reader in, Path spillFolder) throws IOException {
         Path spill = Files.createTempFile(spillFolder, "cairn-draws-", ".spill");
@@ -78,14 +82,17 @@ public final class DrawsFile implements AutoCloseable {
         bytes.clear();
     }
 
+    /** @return the parameter names, in column order */
     public List<String> names() {
         return names;
     }
 
+    /** @return how many chains */
     public int chains() {
         return chains;
     }
 
+    /** @return draws per chain */
     public int draws() {
         return draws;
     }
@@ -98,6 +105,10 @@ public final class DrawsFile implements AutoCloseable {
     /**
      * Hands out the columns in blocks of at most {@code perBlock}, in column order; each block's arrays
      * are new, so the consumer may keep or drop them.
+     *
+     * @param perBlock most columns in one block, at least 1
+     * @param consumer takes each block
+     * @throws java.io.UncheckedIOException when the spill file cannot be read back
      */
     public void columns(int perBlock, Block consumer) {
         if (perBlock < 1) {
@@ -137,6 +148,7 @@ public final class DrawsFile implements AutoCloseable {
         }
     }
 
+    /** Deletes the spill file. */
     @Override
     public void close() throws IOException {
         Files.deleteIfExists(spill);
