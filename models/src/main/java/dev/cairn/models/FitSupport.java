@@ -71,22 +71,29 @@ public final class FitSupport {
     }
 
     /**
-     * The sampler of a model without a closed-form posterior but with a gradient: "auto" (or none) and "nuts"
-     * run NUTS; "slice" and "metropolis-within-gibbs" update one coordinate at a time through the same density.
+     * The sampler of a model without a closed-form posterior but with a gradient: "nuts" runs NUTS; "slice" and
+     * "metropolis-within-gibbs" update one coordinate at a time through the same density; "auto" (or none) is
+     * the model's best ({@code best}).
      *
      * @param requested the spec's sampler.method
      * @param model     the model's name, for the message
-     * @return "nuts", "slice" or "metropolis-within-gibbs"
-     * @throws InputException for "exact"
+     * @param best      what "auto" means for this model
+     * @param own       further methods only this model has (may be empty)
+     * @return the method that runs
+     * @throws InputException for a method the model does not have
      */
-    public static String gradientMethod(String requested, String model) {
-        if (requested == null || requested.equals("auto") || requested.equals("nuts")) {
-            return "nuts";
+    public static String gradientMethod(String requested, String model, String best, String... own) {
+        if (requested == null || requested.equals("auto")) {
+            return best;
         }
-        if (requested.equals("slice") || requested.equals("metropolis-within-gibbs")) {
+        if (requested.equals("nuts") || requested.equals("slice") || requested.equals("metropolis-within-gibbs")
+                || java.util.Arrays.asList(own).contains(requested)) {
             return requested;
         }
-        throw new InputException("/sampler/method: " + model + " has no closed-form posterior; use 'auto' or 'nuts'");
+        List<String> allowed = new java.util.ArrayList<>(List.of("auto", "nuts", "slice", "metropolis-within-gibbs"));
+        allowed.addAll(java.util.Arrays.asList(own));
+        throw new InputException("/sampler/method: " + model + " has no closed-form posterior; use "
+                + allowed.stream().map(a -> "'" + a + "'").collect(java.util.stream.Collectors.joining(", ")));
     }
 
     /** The warning put first in a result that did not converge. */

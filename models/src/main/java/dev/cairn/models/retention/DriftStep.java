@@ -26,6 +26,11 @@ final class DriftStep implements Step {
         this.nonCentred = nonCentred;
     }
 
+    /** The half-normal prior of sigma on the log scale and the increments' squares over sigma^2, at log sigma l. */
+    private static double walkTerms(double l, double squares) {
+        return RetentionPosterior.DRIFT.logDensityOfLog(l) - squares / (2 * Math.exp(2 * l));
+    }
+
     @Override
     public Updater start(Target target, UniformRandomProvider stream) {
         LocalSlice slice = new LocalSlice(target.parameters().size(), 0.5, stream);
@@ -44,6 +49,8 @@ final class DriftStep implements Step {
             }
             double squares = ss;
             int increments = m.cohorts - 1;
+            double before = x[logSigma];
+            double lp = state.logDensity();
             slice.update(x, logSigma, l -> {
                 return RetentionPosterior.DRIFT.logDensityOfLog(l) - increments * l - squares / (2 * Math.exp(2 * l));
             });
@@ -53,7 +60,15 @@ final class DriftStep implements Step {
                     x[first + c] *= ratio;
                 }
             }
-            state.invalidate();
+            // the likelihood is unchanged (the series is held); the density changes by the walk's prior terms,
+            // stored centred: the slice's own target; non-centred: without the increments' sigma^-(C-1), which
+            // the standardised steps' coordinates absorb
+            double after = x[logSigma];
+            double change = walkTerms(after, squares) - walkTerms(before, squares);
+            if (!nonCentred) {
+                change -= increments * (after - before);
+            }
+            state.accept(lp + change);
         };
     }
 }

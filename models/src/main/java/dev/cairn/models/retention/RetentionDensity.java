@@ -28,10 +28,13 @@ final class RetentionDensity implements GradientTarget {
     private final double[] covariate;
     /** Per thread: the point with centred series (targets are shared by chains running in parallel). */
     private final ThreadLocal<double[]> scratch;
+    /** Per thread: a gradient the value-only path lets the walks' terms write to (and ignores). */
+    private final ThreadLocal<double[]> gradientScratch;
 
     RetentionDensity(RetentionPosterior model) {
         this.m = model;
         this.scratch = ThreadLocal.withInitial(() -> new double[model.size]);
+        this.gradientScratch = ThreadLocal.withInitial(() -> new double[model.size]);
         int maxDay = 0;
         for (int[] d : model.days) {
             for (int t : d) {
@@ -49,21 +52,33 @@ final class RetentionDensity implements GradientTarget {
         return m.parameters;
     }
 
+    /** The log density alone: the likelihood without its digamma terms, the priors as below. */
+    @Override
+    public double logDensity(double[] x) {
+        double[] centred = scratch.get();
+        m.centred(x, centred);
+        double lp = likelihood(centred, null);
+        double[] g = gradientScratch.get();
+        java.util.Arrays.fill(g, 0);
+        lp += walk(x, g, m.level, m.levelMean(), m.levelSd(), m.logSigmaL, m.levelNc)
+                + walk(x, g, m.slope, m.slopeMean(), m.slopeSd(), m.logSigmaS, m.slopeNc);
+        for (int i = m.offLevel; i < m.logSigmaL; i++) {
+            lp -= 0.5 * x[i] * x[i] / (RetentionPosterior.OFFSET_SD * RetentionPosterior.OFFSET_SD);
+        }
+        if (!m.survival) {
+            double r = (x[m.logKappa] - RetentionPosterior.LOG_KAPPA_MEAN) / RetentionPosterior.LOG_KAPPA_SD;
+            lp -= 0.5 * r * r;
+        }
+        return lp;
+    }
+
     @Override
     public double logDensityAndGradient(double[] x, double[] g) {
         java.util.Arrays.fill(g, 0);
         double[] centred = scratch.get();
         m.centred(x, centred);
         // likelihood in the centred series (its gradient lands on L_c and S_c), then the chain rule to the steps
-        double lp = 0;
-        for (int c = 0; c < m.cohorts; c++) {
-            for (int k = 0; k < m.arms; k++) {
-                if (m.n[c][k] == 0 || m.days(c, k).length == 0) {
-                    continue;
-                }
-                lp += m.survival ? survival(centred, g, c, k) : activity(centred, g, c, k);
-            }
-        }
+        double lp = likelihood(centred, g);
         lp += walk(x, g, m.level, m.levelMean(), m.levelSd(), m.logSigmaL, m.levelNc)
                 + walk(x, g, m.slope, m.slopeMean(), m.slopeSd(), m.logSigmaS, m.slopeNc);
         for (int i = m.offLevel; i < m.logSigmaL; i++) {
@@ -76,6 +91,166 @@ final class RetentionDensity implements GradientTarget {
             g[m.logKappa] -= r / RetentionPosterior.LOG_KAPPA_SD;
         }
         return lp;
+    }
+
+    /**
+     * The log likelihood at a point whose series blocks hold L_c and S_c; when {@code g} is not null, its
+     * derivatives with respect to those coordinates (series, offsets, log kappa) are added to g.
+     *
+     * @param centred the point, centred series
+     * @param g       gradient to add to (modified), or null for the value alone (no digamma terms)
+     * @return the log likelihood
+     */
+    double likelihood(double[] centred, double[] g) {
+        double[] local = g == null ? null : new double[3];
+        double logKappa = m.survival ? 0 : centred[m.logKappa];
+        double lp = 0;
+        for (int c = 0; c < m.cohorts; c++) {
+            for (int k = 0; k < m.arms; k++) {
+                if (m.n[c][k] == 0 || m.days(c, k).length == 0) {
+                    continue;
+                }
+                lp += cell(c, k, centred[m.level + c] + m.offL(centred, k), centred[m.slope + c] + m.offS(centred, k),
+                        logKappa, local);
+                if (g != null) {
+                    addCurve(g, c, k, local[0], local[1]);
+                    if (!m.survival) {
+                        g[m.logKappa] += local[2];
+                    }
+                }
+            }
+        }
+        return lp;
+    }
+
+    /**
+     * The negative Hessian of the log likelihood at a centred point, over the coordinates that
+     * {@code position} maps to 0..d-1 (the others, -1, left out): per cell, central differences of the cell's
+     * analytic gradient in its own level, slope and log kappa, optionally made positive semi-definite (negative
+     * eigenvalues set to 0, EJML; one cell's likelihood need not be concave in log kappa), then added at the cohort's and the arm's coordinates. The likelihood is a
+     * sum over cells, each a function of those two or three numbers, so the whole matrix costs about six
+     * gradients.
+     *
+     * @param centred  the point, centred series
+     * @param position each coordinate's row in the output, or -1
+     * @param d        the output's order
+     * @param out      d x d row-major (overwritten)
+     * @param project  whether to make each cell's block positive semi-definite (as a proposal needs)
+     */
+    void negativeHessian(double[] centred, int[] position, int d, double[] out, boolean project) {
+        java.util.Arrays.fill(out, 0);
+        int dims = m.survival ? 2 : 3;
+        double h = 1e-4;
+        double[] plus = new double[3], minus = new double[3];
+        org.ejml.data.DMatrixRMaj local = new org.ejml.data.DMatrixRMaj(dims, dims);
+        var eigen = org.ejml.dense.row.factory.DecompositionFactory_DDRM.eig(dims, true, true);
+        int[][] rows = new int[dims][2];
+        double logKappa = m.survival ? 0 : centred[m.logKappa];
+        for (int c = 0; c < m.cohorts; c++) {
+            for (int k = 0; k < m.arms; k++) {
+                if (m.n[c][k] == 0 || m.days(c, k).length == 0) {
+                    continue;
+                }
+                double[] u = {centred[m.level + c] + m.offL(centred, k), centred[m.slope + c] + m.offS(centred, k), logKappa};
+                for (int j = 0; j < dims; j++) {
+                    double keep = u[j];
+                    u[j] = keep + h;
+                    cell(c, k, u[0], u[1], u[2], plus);
+                    u[j] = keep - h;
+                    cell(c, k, u[0], u[1], u[2], minus);
+                    u[j] = keep;
+                    for (int i = 0; i < dims; i++) {
+                        local.set(i, j, -(plus[i] - minus[i]) / (2 * h));
+                    }
+                }
+                for (int i = 0; i < dims; i++) {
+                    for (int j = 0; j < i; j++) {
+                        double v = 0.5 * (local.get(i, j) + local.get(j, i));
+                        local.set(i, j, v);
+                        local.set(j, i, v);
+                    }
+                }
+                if (project) {
+                    positivePart(local, eigen);
+                }
+                rows[0][0] = position[m.level + c];
+                rows[0][1] = k == m.control ? -1 : position[m.offset(m.offLevel, k)];
+                rows[1][0] = position[m.slope + c];
+                rows[1][1] = k == m.control ? -1 : position[m.offset(m.offSlope, k)];
+                if (dims == 3) {
+                    rows[2][0] = position[m.logKappa];
+                    rows[2][1] = -1;
+                }
+                for (int i = 0; i < dims; i++) {
+                    for (int j = 0; j < dims; j++) {
+                        double v = local.get(i, j);
+                        for (int a : rows[i]) {
+                            for (int b : rows[j]) {
+                                if (a >= 0 && b >= 0) {
+                                    out[a * d + b] += v;
+                                }
+                            }
+                        }
+                    }
+                }
+            }
+        }
+    }
+
+    /** Replaces a small symmetric matrix by its positive semi-definite part (negative eigenvalues to 0). */
+    private static void positivePart(org.ejml.data.DMatrixRMaj a,
+                                     org.ejml.interfaces.decomposition.EigenDecomposition_F64<org.ejml.data.DMatrixRMaj> eigen) {
+        int n = a.numRows;
+        boolean definite = true;
+        // quick exit for the usual case: Sylvester's criterion on the leading minors
+        double m1 = a.get(0, 0), m2 = a.get(0, 0) * a.get(1, 1) - a.get(0, 1) * a.get(1, 0);
+        double m3 = n == 3 ? org.ejml.dense.row.CommonOps_DDRM.det(a) : 1;
+        definite = m1 > 0 && m2 > 0 && m3 > 0;
+        if (definite) {
+            return;
+        }
+        if (!eigen.decompose(a.copy())) {
+            a.zero();
+            return;
+        }
+        org.ejml.data.DMatrixRMaj out = new org.ejml.data.DMatrixRMaj(n, n);
+        for (int e = 0; e < n; e++) {
+            double value = eigen.getEigenvalue(e).getReal();
+            org.ejml.data.DMatrixRMaj v = eigen.getEigenVector(e);
+            if (value <= 0 || v == null) {
+                continue;
+            }
+            double norm = 0;
+            for (int i = 0; i < n; i++) {
+                norm += v.get(i) * v.get(i);
+            }
+            for (int i = 0; i < n; i++) {
+                for (int j = 0; j < n; j++) {
+                    out.add(i, j, value * v.get(i) * v.get(j) / norm);
+                }
+            }
+        }
+        a.setTo(out);
+    }
+
+    /**
+     * One cell's log likelihood at its level l and slope s (activity: the logit curve's; survival: log alpha
+     * and log beta) and log kappa (activity only); when {@code local} is not null it receives the derivatives
+     * with respect to l, s and log kappa.
+     */
+    double cell(int c, int k, double l, double s, double logKappa, double[] local) {
+        if (m.survival) {
+            double alpha = Math.exp(l), beta = Math.exp(s);
+            double[] d = local == null ? new double[2] : local;
+            double lp = survivalCell(alpha, beta, m.days(c, k), m.active[c][k], m.n[c][k], d);
+            if (local != null) {
+                local[0] = alpha * d[0];
+                local[1] = beta * d[1];
+                local[2] = 0;
+            }
+            return lp;
+        }
+        return activity(c, k, l, s, Math.exp(logKappa), local);
     }
 
     /**
@@ -127,12 +302,10 @@ final class RetentionDensity implements GradientTarget {
         return lp;
     }
 
-    private double activity(double[] x, double[] g, int c, int k) {
-        double l = x[m.level + c] + m.offL(x, k), s = x[m.slope + c] + m.offS(x, k);
-        double kappa = Math.exp(x[m.logKappa]);
+    private double activity(int c, int k, double l, double s, double kappa, double[] local) {
         double n = m.n[c][k];
         double kappaTerms = Gamma.logGamma(kappa) - Gamma.logGamma(n + kappa);
-        double kappaSlope = Gamma.digamma(kappa) - Gamma.digamma(n + kappa);
+        double kappaSlope = local == null ? 0 : Gamma.digamma(kappa) - Gamma.digamma(n + kappa);
         int[] ds = m.days(c, k);
         long[] ys = m.active[c][k];
         double lp = 0, gz = 0, gzs = 0, gKappa = 0;
@@ -145,24 +318,20 @@ final class RetentionDensity implements GradientTarget {
             double a = r * kappa, b = q * kappa;
             double y = ys[i];
             lp += Gamma.logGamma(y + a) + Gamma.logGamma(n - y + b) - Gamma.logGamma(a) - Gamma.logGamma(b) + kappaTerms;
-            double da = Gamma.digamma(y + a) - Gamma.digamma(a);
-            double db = Gamma.digamma(n - y + b) - Gamma.digamma(b);
-            double dz = kappa * r * q * (da - db);
-            gz += dz;
-            gzs += dz * xt;
-            gKappa += kappa * (r * da + q * db + kappaSlope);
+            if (local != null) {
+                double da = Gamma.digamma(y + a) - Gamma.digamma(a);
+                double db = Gamma.digamma(n - y + b) - Gamma.digamma(b);
+                double dz = kappa * r * q * (da - db);
+                gz += dz;
+                gzs += dz * xt;
+                gKappa += kappa * (r * da + q * db + kappaSlope);
+            }
         }
-        addCurve(g, c, k, gz, gzs);
-        g[m.logKappa] += gKappa;
-        return lp;
-    }
-
-    /** One survival cell ({@link #survivalCell}) on the log scale of alpha and beta. */
-    private double survival(double[] x, double[] g, int c, int k) {
-        double alpha = Math.exp(x[m.level + c] + m.offL(x, k)), beta = Math.exp(x[m.slope + c] + m.offS(x, k));
-        double[] d = new double[2];
-        double lp = survivalCell(alpha, beta, m.days(c, k), m.active[c][k], m.n[c][k], d);
-        addCurve(g, c, k, alpha * d[0], beta * d[1]);
+        if (local != null) {
+            local[0] = gz;
+            local[1] = gzs;
+            local[2] = gKappa;
+        }
         return lp;
     }
 

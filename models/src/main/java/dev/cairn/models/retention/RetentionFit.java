@@ -48,8 +48,9 @@ public final class RetentionFit {
         // One arm (no arm column) is a plain curve fit with nothing to compare; otherwise arms need a control.
         String control = arms.size() == 1 && (spec.control() == null || spec.control().equals(arms.get(0)))
                 ? arms.get(0) : FitSupport.control(spec, arms, data.source());
-        String method = FitSupport.gradientMethod(spec.samplerOrDefault().method(), "retention");
-        RetentionPosterior model = new RetentionPosterior(data, control, survival);
+        String method = FitSupport.gradientMethod(spec.samplerOrDefault().method(), "retention",
+                RetentionPosterior.AUTO, RetentionPosterior.LAPLACE_METROPOLIS);
+        RetentionPosterior model = new RetentionPosterior(data, control, survival, method.equals(RetentionPosterior.LAPLACE_METROPOLIS));
         RunSettings settings = FitSupport.runSettings(spec, options, false);
         Draws internal = model.sample(method, settings, options.progress(), options.cancellation());
 

@@ -38,13 +38,17 @@ import org.apache.commons.rng.UniformRandomProvider;
  * log beta_1 ~ N(1, 1.5^2); offsets ~ N(0, 1); sigmaL, sigmaS ~ half-N(0, 0.25^2) (curves move a little from
  * one cohort to the next); log kappa ~ N(log 100, 1.5^2).
  *
- * <p>Schedule ("auto" = "nuts"): one No-U-Turn transition over every coordinate per iteration (the walks
- * non-centred: first value and standardised steps), then a slice move of each drift scale given its series'
- * increments (the centred direction: interweaving, Yu & Meng 2011), so the scale mixes whether the data pin
- * each cohort or not. "slice" and "metropolis-within-gibbs" update one coordinate at a
- * time through the same density.
+ * <p>Samplers. "auto" = "laplace-metropolis" ({@link LaplaceMetropolis}): the walks stored centred, every
+ * coordinate proposed at once from a Gaussian approximation given the drift scales, the drift scales moved under
+ * their approximate marginal, each move accepted with the exact density; then each drift scale is also moved given
+ * its series' increments ({@link DriftStep}). "nuts": one No-U-Turn transition over every coordinate per
+ * iteration (each walk centred or non-centred as {@link WalkChoice} decides from the data), then the
+ * drift-scale moves (the centred direction: interweaving, Yu & Meng 2011). "slice" and
+ * "metropolis-within-gibbs" update one coordinate at a time through the same density.
  */
 public final class RetentionPosterior {
+    /** The sampler "auto" runs, and the name of the Laplace-Metropolis method. */
+    static final String LAPLACE_METROPOLIS = "laplace-metropolis", AUTO = LAPLACE_METROPOLIS;
     static final double OFFSET_SD = 1, DRIFT_SD = 0.25, LOG_KAPPA_MEAN = Math.log(100), LOG_KAPPA_SD = 1.5;
     /** The drift scales' prior: half-normal with sd {@link #DRIFT_SD}. */
     static final dev.cairn.models.prior.HalfNormal DRIFT = new dev.cairn.models.prior.HalfNormal(DRIFT_SD);
@@ -70,7 +74,16 @@ public final class RetentionPosterior {
     /** Whether the level and the slope series are stored non-centred (first value and standardised steps). */
     final boolean levelNc, slopeNc;
 
+    /** The posterior as the default sampler ({@link #AUTO}) runs it: both walks stored centred. */
     RetentionPosterior(CohortDays data, String controlArm, boolean survival) {
+        this(data, controlArm, survival, true);
+    }
+
+    /**
+     * @param centredWalks store both walks centred (the Laplace-Metropolis step needs it) instead of choosing
+     *                     centred or non-centred from the data ({@link WalkChoice}, for the other samplers)
+     */
+    RetentionPosterior(CohortDays data, String controlArm, boolean survival, boolean centredWalks) {
         this.survival = survival;
         this.cohorts = data.cohorts().size();
         this.arms = data.arms().size();
@@ -87,7 +100,7 @@ public final class RetentionPosterior {
             }
         }
         this.days = flatten(d);
-        boolean[] nc = WalkChoice.nonCentred(this);
+        boolean[] nc = centredWalks ? new boolean[2] : WalkChoice.nonCentred(this);
         levelNc = nc[0];
         slopeNc = nc[1];
         Parameters.Builder names = Parameters.builder();
@@ -232,13 +245,15 @@ public final class RetentionPosterior {
     }
 
     Draws sample(RunSettings settings, Progress progress, Cancellation cancellation) {
-        return sample("nuts", settings, progress, cancellation);
+        return sample(AUTO, settings, progress, cancellation);
     }
 
     Draws sample(String method, RunSettings settings, Progress progress, Cancellation cancellation) {
         Sweep sweep = switch (method) {
             case "slice" -> Sweep.of(SliceStep.of(0.5));
             case "metropolis-within-gibbs" -> Sweep.of(MetropolisStep.of(0.2));
+            case "laplace-metropolis" -> Sweep.of(new LaplaceMetropolis(this, settings.warmup()),
+                    new DriftStep(this, level, logSigmaL, false), new DriftStep(this, slope, logSigmaS, false));
             default -> Sweep.of(NutsStep.of(settings.warmup()), new DriftStep(this, level, logSigmaL, levelNc),
                     new DriftStep(this, slope, logSigmaS, slopeNc));
         };

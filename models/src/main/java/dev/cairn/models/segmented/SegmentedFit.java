@@ -38,7 +38,7 @@ public final class SegmentedFit {
         List<String> arms = data.arms();
         List<String> segments = data.segments();
         String control = FitSupport.control(spec, arms, data.source());
-        String method = FitSupport.gradientMethod(spec.samplerOrDefault().method(), "segmented-spend");
+        String method = FitSupport.gradientMethod(spec.samplerOrDefault().method(), "segmented-spend", "nuts");
         SegmentedPosterior model = new SegmentedPosterior(data, control, spec.parameterisation());
         RunSettings settings = FitSupport.runSettings(spec, options, false);
         Draws internal = model.sample(method, settings, options.progress(), options.cancellation());

@@ -23,13 +23,73 @@ class RetentionGradientTest {
         for (boolean survival : new boolean[] {false, true}) {
             Path file = RetentionScaleScenario.write(dir.resolve(survival + ".csv"), 5, 3, survival, 3);
             CohortDays data = CohortDays.read(new DataSpec(file.getFileName().toString(), "cohort-days", null, null), dir, survival);
-            RetentionPosterior m = new RetentionPosterior(data, "A", survival);
-            UniformRandomProvider rng = RandomStreams.forChain(9, 0);
-            for (int trial = 0; trial < 5; trial++) {
-                double[] x = m.start(rng);
-                double error = GradientCheck.maxError(m.density, x);
-                assertTrue(error < 1e-5, (survival ? "survival" : "activity") + ": " + error + " at "
-                        + GradientCheck.worst(m.density, x));
+            // walks as the data choose them (NUTS) and both centred (the default sampler)
+            for (boolean centred : new boolean[] {false, true}) {
+                RetentionPosterior m = new RetentionPosterior(data, "A", survival, centred);
+                UniformRandomProvider rng = RandomStreams.forChain(9, 0);
+                for (int trial = 0; trial < 5; trial++) {
+                    double[] x = m.start(rng);
+                    // activity: the log-Gamma terms (a few hundred of size 1e4) round to about 1e-10 in all,
+                    // which a central difference over h = 5e-5 in log kappa turns into 1e-5; survival has none
+                    double error = GradientCheck.maxError(m.density, x);
+                    assertTrue(error < (survival ? 1e-5 : 1e-4), (survival ? "survival" : "activity") + ": " + error + " at "
+                            + GradientCheck.worst(m.density, x));
+                }
+            }
+        }
+    }
+
+    /**
+     * The Laplace-Metropolis expansion's Hessian (per cell, then added at the cohorts' and arms' coordinates)
+     * equals central differences of the whole likelihood's analytic gradient (without the positive-part
+     * projection, which changes only cells whose block is not negative definite); with it, every cell's
+     * block and so the whole matrix is positive semi-definite.
+     */
+    @Test
+    void likelihoodHessianMatchesDifferencesOfTheGradient() {
+        for (boolean survival : new boolean[] {false, true}) {
+            Path file = RetentionScaleScenario.write(dir.resolve("h" + survival + ".csv"), 4, 3, survival, 5);
+            CohortDays data = CohortDays.read(new DataSpec(file.getFileName().toString(), "cohort-days", null, null), dir, survival);
+            RetentionPosterior m = new RetentionPosterior(data, "A", survival, true);
+            double[] x = m.start(RandomStreams.forChain(4, 0));
+            int[] position = new int[m.size];
+            int d = 0;
+            for (int i = 0; i < m.size; i++) {
+                position[i] = i == m.logSigmaL || i == m.logSigmaS ? -1 : d++;
+            }
+            double[] h = new double[d * d];
+            m.density.negativeHessian(x, position, d, h, false);
+            double step = 1e-5;
+            for (int j = 0; j < m.size; j++) {
+                if (position[j] < 0) {
+                    continue;
+                }
+                double[] up = x.clone(), down = x.clone(), gUp = new double[m.size], gDown = new double[m.size];
+                up[j] += step;
+                down[j] -= step;
+                m.density.likelihood(up, gUp);
+                m.density.likelihood(down, gDown);
+                for (int i = 0; i < m.size; i++) {
+                    if (position[i] < 0) {
+                        continue;
+                    }
+                    double expected = -(gUp[i] - gDown[i]) / (2 * step);
+                    double actual = h[position[i] * d + position[j]];
+                    assertEquals(expected, actual, 1e-4 * Math.max(1, Math.abs(expected)),
+                            (survival ? "survival" : "activity") + " H[" + m.parameters.name(i) + ", " + m.parameters.name(j) + "]");
+                }
+            }
+            m.density.negativeHessian(x, position, d, h, true);
+            org.ejml.data.DMatrixRMaj projected = new org.ejml.data.DMatrixRMaj(d, d, true, h);
+            var eigen = org.ejml.dense.row.factory.DecompositionFactory_DDRM.eig(d, false, true);
+            assertTrue(eigen.decompose(projected));
+            double largest = 0;
+            for (int e = 0; e < d; e++) {
+                largest = Math.max(largest, Math.abs(eigen.getEigenvalue(e).getReal()));
+            }
+            for (int e = 0; e < d; e++) {
+                assertTrue(eigen.getEigenvalue(e).getReal() > -1e-9 * largest, "projected Hessian's eigenvalue "
+                        + eigen.getEigenvalue(e).getReal());
             }
         }
     }

@@ -1,0 +1,519 @@
+package dev.cairn.models.retention;
+
+import dev.cairn.samplers.ChainState;
+import dev.cairn.samplers.Step;
+import dev.cairn.samplers.Target;
+import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
+
+/**
+ * The retention posterior's {@code laplace-metropolis} step: Metropolis-Hastings moves of every coordinate at
+ * once, proposed from a Gaussian approximation of the posterior given the two drift scales (Tierney 1994,
+ * "Markov chains for exploring posterior distributions", Annals of Statistics 22(4):1701-1728, the
+ * independence chain; the Gaussian from a second-order expansion of the likelihood as in the Laplace
+ * approximation).
+ *
+ * <p>Write theta for everything but the drift scales (the centred series L_c and S_c, the arm offsets, log kappa).
+ * Given sigma = (sigmaL, sigmaS) the prior of theta is Gaussian: log p(theta | sigma) = -theta' Q(sigma) theta / 2
+ * + b' theta + const, Q holding the random walks' 1/sigma^2 increments, the first values' and the offsets'
+ * precisions. The log likelihood is replaced by its expansion at a point theta0, lik(theta0) + g0'(theta - theta0)
+ * - (theta - theta0)' H0 (theta - theta0) / 2 (H0 the negative Hessian, each cell's block made positive
+ * semi-definite), so that
+ * <pre>
+ *   q(theta | sigma) = N(mu, P^-1),   P = H0 + Q(sigma),   P mu = H0 theta0 + g0 + b
+ * </pre>
+ * is exact in sigma and close to p(theta | sigma, data) wherever the likelihood is nearly quadratic over the
+ * posterior (thousands of installs per cell). Each iteration makes one joint move, one evaluation of the log
+ * density: the drift scales take {@value #SURROGATE_STEPS} random-walk Metropolis steps under their approximate
+ * marginal posterior m(sigma) = p(sigma) * integral of exp(expansion) p(theta | sigma) d theta (a Gaussian integral,
+ * read off the same Cholesky factor), then theta' ~ q(. | sigma'), and the pair is accepted with probability
+ * <pre>
+ *   min(1, [p(sigma', theta') / (q(theta' | sigma') m(sigma'))] / [p(sigma, theta) / (q(theta | sigma) m(sigma))])
+ * </pre>
+ * (the surrogate steps are reversible for m, so m's ratio stands in for their proposal density: surrogate
+ * transitions: Liu 2001, "Monte Carlo Strategies in Scientific Computing", the surrogate transition method;
+ * the citation from memory, section not checked). The
+ * ratio is the expansion's error alone, so the drift scales travel as if theta were integrated out: no funnel
+ * however small they are, and no tuning of a step along thousands of cells.
+ *
+ * <p>Every {@value #LOCAL_EVERY} iterations a random-walk Metropolis step of theta follows, with covariance
+ * proportional to q's: it does not depend on q covering the posterior's tails, so where the expansion is poor
+ * (few installs, a broad kappa) a chain that an independence proposal would hold at one point walks on.
+ *
+ * <p>Warmup: at the first iteration, theta0 is the mode of p(theta | sigma, data) at the chain's start (Newton
+ * steps with a backtracking line search); it is moved to the mean of the draws at the end of warmup windows of
+ * 25, 50, 100, 200, ... iterations, and the random walk's covariance and scale are learnt from the log sigma
+ * draws (scale aimed at acceptance 0.3). Everything is frozen for the kept draws, so the kept chain is a
+ * fixed Metropolis-Hastings kernel and exact for the posterior, whatever the quality of the approximation
+ * (a poor one shows as low acceptance and low ESS, never as bias). The first warmup iteration jumps to a draw
+ * from q: a start far out in the tails would otherwise hold an independence proposal back for long.
+ *
+ * <p>Cost per iteration: one and a half log densities (no gradient) and {@value #SURROGATE_STEPS} + 1 sparse Cholesky
+ * factorisations (EJML) of the (2C + 2(K - 1) + 1)-square precision, banded over the interleaved series with the
+ * offsets and log kappa as an arrow head, so linear in the number of cohorts.
+ */
+final class LaplaceMetropolis implements Step {
+    /** Acceptance the log sigma random walk aims for during warmup (common practice for a 2-d random walk). */
+    static final double TARGET_ACCEPTANCE = 0.3;
+    /** Random-walk steps of the drift scales under their approximate marginal before each joint proposal. */
+    static final int SURROGATE_STEPS = 10;
+    /** Acceptance the local random walk aims for (common practice for random-walk Metropolis in many dimensions). */
+    static final double LOCAL_ACCEPTANCE = 0.234;
+    /** The local random walk runs every this many iterations (a fixed cycle, so each kernel keeps the posterior). */
+    static final int LOCAL_EVERY = 2;
+    private final RetentionPosterior m;
+    private final int warmup;
+
+    LaplaceMetropolis(RetentionPosterior model, int warmup) {
+        if (model.levelNc || model.slopeNc) {
+            throw new IllegalArgumentException("the Laplace-Metropolis step needs the walks stored centred");
+        }
+        this.m = model;
+        this.warmup = warmup;
+    }
+
+    @Override
+    public Updater start(Target target, UniformRandomProvider stream) {
+        return new Chain(target, stream);
+    }
+
+    /**
+     * The Gaussian q(theta | sigma): the lower Cholesky factor of its precision (sparse), its mean, sum log L_ii,
+     * and the approximate log marginal density of the drift scales there (up to a constant).
+     */
+    private record Gaussian(org.ejml.data.DMatrixSparseCSC lower, double[] mean, double logRootDet, double logMarginal,
+                            double logSigmaL, double logSigmaS) {
+    }
+
+    /** Per chain: the expansion, the random walk's adaptation, scratch. */
+    private final class Chain implements Updater {
+        private final Target target;
+        private final UniformRandomProvider rng;
+        private final ZigguratSampler.NormalizedGaussian normal;
+        /**
+         * theta's coordinates in the chain's point, and each coordinate's position in theta (-1: a drift scale).
+         * Positions interleave the series (L_c at 2c, S_c at 2c + 1) and put the offsets and log kappa last, so
+         * that the precision is banded with an arrow head and its Cholesky factor fills in nothing else.
+         */
+        private final int[] theta;
+        private final int[] position;
+        private final int d;
+        /** -Hessian of the log likelihood at theta0 (dense d x d, as the expansion writes it) and H0 theta0 + g0. */
+        private final double[] h0;
+        private final double[] linear;
+        /** The prior's constant part: Q without the walks (diagonal) and b. */
+        private final double[] priorPrecision;
+        private final double[] priorShift;
+        /** The precision's pattern (CSC) and, per stored value, its row and column. */
+        private final org.ejml.data.DMatrixSparseCSC pattern;
+        private final int[] entryRow;
+        private final int[] entryColumn;
+        /** Where the walks' increments sit in the pattern's values: per cohort c >= 1, (c, c), (c-1, c-1), (c, c-1), (c-1, c). */
+        private final int[][] levelWalk;
+        private final int[][] slopeWalk;
+        /** H0 plus the constant prior diagonal, in the pattern's value order. */
+        private final double[] baseValues;
+        private final org.ejml.sparse.csc.decomposition.chol.CholeskyUpLooking_DSCC cholesky;
+        private final double[] proposal;
+        private final double[] z;
+        private Gaussian current;
+        private int iteration;
+        private int windowEnd = 25;
+        private int windowSize = 25;
+        private final double[] windowSum;
+        private int windowCount;
+        /** Random walk on (log sigmaL, log sigmaS) under the approximate marginal: Cholesky factor, log scale. */
+        private double rw00 = 0.3, rw10, rw11 = 0.3;
+        private double logScale;
+        private double sumL, sumS, sumLL, sumLS, sumSS;
+        private int rwCount;
+        private int adaptStep;
+        private long moves;
+        /** The local random walk's log scale (times 1/sqrt(d)) and its adaptation count. */
+        private double localLogScale = Math.log(2.38);
+        private int localStep;
+        private long accepted;
+
+        Chain(Target target, UniformRandomProvider stream) {
+            this.target = target;
+            this.rng = stream;
+            this.normal = ZigguratSampler.NormalizedGaussian.of(stream);
+            int size = m.size;
+            position = new int[size];
+            java.util.Arrays.fill(position, -1);
+            int count = 0;
+            for (int c = 0; c < m.cohorts; c++) {
+                position[m.level + c] = count++;
+                position[m.slope + c] = count++;
+            }
+            for (int i = 0; i < size; i++) {
+                if (position[i] < 0 && i != m.logSigmaL && i != m.logSigmaS) {
+                    position[i] = count++;
+                }
+            }
+            d = count;
+            theta = new int[d];
+            for (int i = 0; i < size; i++) {
+                if (position[i] >= 0) {
+                    theta[position[i]] = i;
+                }
+            }
+            h0 = new double[d * d];
+            linear = new double[d];
+            windowSum = new double[d];
+            priorPrecision = new double[d];
+            priorShift = new double[d];
+            priorPrecision[position[m.level]] = 1 / (m.levelSd() * m.levelSd());
+            priorShift[position[m.level]] = m.levelMean() / (m.levelSd() * m.levelSd());
+            priorPrecision[position[m.slope]] = 1 / (m.slopeSd() * m.slopeSd());
+            priorShift[position[m.slope]] = m.slopeMean() / (m.slopeSd() * m.slopeSd());
+            for (int i = m.offLevel; i < m.logSigmaL; i++) {
+                priorPrecision[position[i]] = 1 / (RetentionPosterior.OFFSET_SD * RetentionPosterior.OFFSET_SD);
+            }
+            if (!m.survival) {
+                double v = RetentionPosterior.LOG_KAPPA_SD * RetentionPosterior.LOG_KAPPA_SD;
+                priorPrecision[position[m.logKappa]] = 1 / v;
+                priorShift[position[m.logKappa]] = RetentionPosterior.LOG_KAPPA_MEAN / v;
+            }
+            int series = 2 * m.cohorts;
+            org.ejml.data.DMatrixSparseTriplet triplet = new org.ejml.data.DMatrixSparseTriplet(d, d, 8 * d + 2 * d * (d - series));
+            for (int i = 0; i < d; i++) {
+                for (int j = 0; j < d; j++) {
+                    boolean band = i < series && j < series && Math.abs(i - j) <= 2;
+                    if (band || i >= series || j >= series) {
+                        triplet.addItem(i, j, 1);
+                    }
+                }
+            }
+            pattern = org.ejml.ops.DConvertMatrixStruct.convert(triplet, (org.ejml.data.DMatrixSparseCSC) null, null);
+            entryRow = new int[pattern.nz_length];
+            entryColumn = new int[pattern.nz_length];
+            for (int col = 0; col < d; col++) {
+                for (int k = pattern.col_idx[col]; k < pattern.col_idx[col + 1]; k++) {
+                    entryRow[k] = pattern.nz_rows[k];
+                    entryColumn[k] = col;
+                }
+            }
+            levelWalk = walkEntries(0);
+            slopeWalk = walkEntries(1);
+            baseValues = new double[pattern.nz_length];
+            cholesky = new org.ejml.sparse.csc.decomposition.chol.CholeskyUpLooking_DSCC();
+            proposal = new double[size];
+            z = new double[d];
+        }
+
+        private int[][] walkEntries(int offset) {
+            int[][] out = new int[Math.max(0, m.cohorts - 1)][];
+            for (int c = 1; c < m.cohorts; c++) {
+                int i = 2 * c + offset, j = 2 * (c - 1) + offset;
+                out[c - 1] = new int[] {pattern.nz_index(i, i), pattern.nz_index(j, j), pattern.nz_index(i, j),
+                    pattern.nz_index(j, i)};
+            }
+            return out;
+        }
+
+        @Override
+        public void update(ChainState state, boolean adapt) {
+            double[] x = state.point();
+            if (iteration == 0) {
+                if (adapt) {
+                    expandAtMode(x);
+                } else {
+                    expandAt(x);
+                }
+            }
+            double lp = state.logDensity();
+            if (current == null || current.logSigmaL() != x[m.logSigmaL] || current.logSigmaS() != x[m.logSigmaS]) {
+                current = gaussian(x[m.logSigmaL], x[m.logSigmaS]);
+            }
+            if (iteration == 0 && adapt && current != null) {
+                // a start far out in the tails would hold an independence chain for long (q is narrow beside the
+                // distance): the first warmup iteration jumps to a draw from q instead
+                System.arraycopy(x, 0, proposal, 0, x.length);
+                draw(current, proposal);
+                double lpJump = target.logDensity(proposal);
+                if (Double.isFinite(lpJump)) {
+                    System.arraycopy(proposal, 0, x, 0, x.length);
+                    lp = lpJump;
+                }
+            }
+            if (current != null) {
+                lp = move(x, lp, adapt);
+                if (iteration % LOCAL_EVERY == 0) {
+                    lp = localMove(x, lp, adapt);
+                }
+            }
+            state.accept(lp);
+            if (adapt) {
+                adapt(x);
+            }
+            iteration++;
+        }
+
+        /**
+         * One move: the drift scales by {@value #SURROGATE_STEPS} random-walk Metropolis steps under their
+         * approximate marginal (a chain reversible for it, so its end is a proposal whose density ratio is the
+         * marginal's), theta from q there, accepted with the exact posterior. Returns the new log density.
+         */
+        private double move(double[] x, double lp, boolean adapt) {
+            double logQ = logQ(current, x);
+            Gaussian next = current;
+            double scale = Math.exp(logScale);
+            int surrogateAccepted = 0;
+            for (int step = 0; step < SURROGATE_STEPS; step++) {
+                double zl = normal.sample(), zs = normal.sample();
+                Gaussian trial = gaussian(next.logSigmaL() + scale * rw00 * zl,
+                        next.logSigmaS() + scale * (rw10 * zl + rw11 * zs));
+                if (trial != null && Math.log(rng.nextDouble()) < trial.logMarginal() - next.logMarginal()) {
+                    next = trial;
+                    surrogateAccepted++;
+                }
+            }
+            if (adapt) {
+                adaptScale(surrogateAccepted / (double) SURROGATE_STEPS);
+            }
+            System.arraycopy(x, 0, proposal, 0, x.length);
+            proposal[m.logSigmaL] = next.logSigmaL();
+            proposal[m.logSigmaS] = next.logSigmaS();
+            double logQNew = draw(next, proposal);
+            double lpNew = target.logDensity(proposal);
+            // p(sigma', theta') / p(sigma, theta) * q(theta | sigma) / q(theta' | sigma') * marginal(sigma) / marginal(sigma')
+            double logRatio = (lpNew - logQNew - next.logMarginal()) - (lp - logQ - current.logMarginal());
+            moves++;
+            if (Double.isFinite(lpNew) && Math.log(rng.nextDouble()) < logRatio) {
+                System.arraycopy(proposal, 0, x, 0, x.length);
+                current = next;
+                accepted++;
+                return lpNew;
+            }
+            return lp;
+        }
+
+        /**
+         * A random-walk Metropolis step of theta with the drift scales held, its covariance s^2 P^-1 (P the current
+         * Gaussian's precision), s tuned in warmup towards acceptance {@value #LOCAL_ACCEPTANCE}. It does not
+         * rely on q covering the posterior's tails: where the expansion is poor (few installs, a broad kappa), an
+         * independence proposal alone can hold a chain at a point q underweights; this step walks it on.
+         */
+        private double localMove(double[] x, double lp, boolean adapt) {
+            double scale = Math.exp(localLogScale) / Math.sqrt(d);
+            for (int i = 0; i < d; i++) {
+                z[i] = normal.sample();
+            }
+            org.ejml.sparse.csc.misc.TriangularSolver_DSCC.solveTranL(current.lower(), z);
+            System.arraycopy(x, 0, proposal, 0, x.length);
+            for (int i = 0; i < d; i++) {
+                proposal[theta[i]] += scale * z[i];
+            }
+            double lpNew = target.logDensity(proposal);
+            double acceptance = Double.isFinite(lpNew) ? Math.exp(Math.min(0, lpNew - lp)) : 0;
+            if (adapt) {
+                localStep++;
+                localLogScale += (acceptance - LOCAL_ACCEPTANCE) / Math.pow(localStep, 0.6);
+                localLogScale = Math.max(-10, Math.min(3, localLogScale));
+            }
+            if (Double.isFinite(lpNew) && rng.nextDouble() < acceptance) {
+                System.arraycopy(proposal, 0, x, 0, x.length);
+                return lpNew;
+            }
+            return lp;
+        }
+
+        /** Warmup: the surrogate random walk's scale, aimed at acceptance {@value #TARGET_ACCEPTANCE}. */
+        private void adaptScale(double acceptance) {
+            adaptStep++;
+            logScale += (acceptance - TARGET_ACCEPTANCE) / Math.pow(adaptStep, 0.6);
+            logScale = Math.max(-10, Math.min(3, logScale));
+        }
+
+        /** Warmup: the random walk's covariance, the expansion point at the end of each window. */
+        private void adapt(double[] x) {
+            double l = x[m.logSigmaL], s = x[m.logSigmaS];
+            sumL += l;
+            sumS += s;
+            sumLL += l * l;
+            sumLS += l * s;
+            sumSS += s * s;
+            rwCount++;
+            for (int i = 0; i < d; i++) {
+                windowSum[i] += x[theta[i]];
+            }
+            windowCount++;
+            if (iteration + 1 < windowEnd || iteration + 1 > warmup - 50) {
+                return;
+            }
+            double[] centre = x.clone();
+            for (int i = 0; i < d; i++) {
+                centre[theta[i]] = windowSum[i] / windowCount;
+            }
+            expandAt(centre);
+            current = null;
+            if (rwCount > 10) {
+                double n = rwCount;
+                double vl = (sumLL - sumL * sumL / n) / (n - 1) + 1e-4;
+                double vs = (sumSS - sumS * sumS / n) / (n - 1) + 1e-4;
+                double cls = (sumLS - sumL * sumS / n) / (n - 1);
+                // the 2-d random walk's covariance: 2.38^2 / 2 times the draws' (common practice), as a Cholesky factor
+                double f = 2.38 * 2.38 / 2;
+                rw00 = Math.sqrt(f * vl);
+                rw10 = f * cls / rw00;
+                rw11 = Math.sqrt(Math.max(f * vs - rw10 * rw10, 1e-8));
+                logScale = 0;
+                adaptStep = 0;
+            }
+            sumL = sumS = sumLL = sumLS = sumSS = 0;
+            rwCount = 0;
+            java.util.Arrays.fill(windowSum, 0);
+            windowCount = 0;
+            windowSize *= 2;
+            windowEnd += windowSize;
+        }
+
+        /**
+         * The Gaussian q(theta | sigma) at log sigmaL = l, log sigmaS = s; null when its precision is not
+         * positive definite or not finite (a move there is rejected).
+         */
+        private Gaussian gaussian(double l, double s) {
+            if (!Double.isFinite(l) || !Double.isFinite(s)) {
+                return null;
+            }
+            org.ejml.data.DMatrixSparseCSC p = pattern.copy();
+            System.arraycopy(baseValues, 0, p.nz_values, 0, baseValues.length);
+            addWalk(p.nz_values, levelWalk, Math.exp(-2 * l));
+            addWalk(p.nz_values, slopeWalk, Math.exp(-2 * s));
+            if (!cholesky.isStructureLocked()) {
+                cholesky.performSymbolic(p);
+                cholesky.setStructureLocked(true);
+            }
+            if (!cholesky.decompose(p)) {
+                return null;
+            }
+            org.ejml.data.DMatrixSparseCSC lower = cholesky.getL().copy();
+            double logRootDet = 0;
+            for (int i = 0; i < d; i++) {
+                double v = lower.get(i, i);
+                if (!(v > 0) || !Double.isFinite(v)) {
+                    return null;
+                }
+                logRootDet += Math.log(v);
+            }
+            double[] rhs = new double[d];
+            for (int i = 0; i < d; i++) {
+                rhs[i] = linear[i] + priorShift[i];
+            }
+            double[] mean = rhs.clone();
+            org.ejml.sparse.csc.misc.TriangularSolver_DSCC.solveL(lower, mean);
+            org.ejml.sparse.csc.misc.TriangularSolver_DSCC.solveTranL(lower, mean);
+            double quadratic = 0;
+            for (int i = 0; i < d; i++) {
+                quadratic += mean[i] * rhs[i];
+                if (!Double.isFinite(mean[i])) {
+                    return null;
+                }
+            }
+            // log of p(sigma) times the integral over theta of exp(expansion) p(theta | sigma), up to a constant
+            int increments = m.cohorts - 1;
+            double logMarginal = RetentionPosterior.DRIFT.logDensityOfLog(l) + RetentionPosterior.DRIFT.logDensityOfLog(s)
+                    - increments * (l + s) - logRootDet + 0.5 * quadratic;
+            return new Gaussian(lower, mean, logRootDet, logMarginal, l, s);
+        }
+
+        /** Adds the random walk's precision (1/sigma^2 per increment) at the given entries. */
+        private void addWalk(double[] values, int[][] entries, double precision) {
+            for (int[] e : entries) {
+                values[e[0]] += precision;
+                values[e[1]] += precision;
+                values[e[2]] -= precision;
+                values[e[3]] -= precision;
+            }
+        }
+
+        /** log q(theta | sigma) at the point's theta, up to the constant -d/2 log(2 pi). */
+        private double logQ(Gaussian g, double[] x) {
+            org.ejml.data.DMatrixSparseCSC lower = g.lower();
+            double[] mean = g.mean();
+            double sum = 0;
+            // w = L' (theta - mu): w_j = sum over column j of L of L_ij (theta_i - mu_i)
+            for (int j = 0; j < d; j++) {
+                double w = 0;
+                for (int k = lower.col_idx[j]; k < lower.col_idx[j + 1]; k++) {
+                    int i = lower.nz_rows[k];
+                    w += lower.nz_values[k] * (x[theta[i]] - mean[i]);
+                }
+                sum += w * w;
+            }
+            return -0.5 * sum + g.logRootDet();
+        }
+
+        /** Writes a draw of theta from q into the point; returns its log q (same constant as {@link #logQ}). */
+        private double draw(Gaussian g, double[] x) {
+            double sum = 0;
+            for (int i = 0; i < d; i++) {
+                z[i] = normal.sample();
+                sum += z[i] * z[i];
+            }
+            double logQ = -0.5 * sum + g.logRootDet();
+            org.ejml.sparse.csc.misc.TriangularSolver_DSCC.solveTranL(g.lower(), z);
+            for (int i = 0; i < d; i++) {
+                x[theta[i]] = g.mean()[i] + z[i];
+            }
+            return logQ;
+        }
+
+        /** Expands the likelihood at the point's theta: H0 and H0 theta0 + g0, and the precision's constant part. */
+        private void expandAt(double[] x) {
+            double[] g = new double[m.size];
+            m.density.likelihood(x, g);
+            m.density.negativeHessian(x, position, d, h0, true);
+            for (int i = 0; i < d; i++) {
+                double sum = g[theta[i]];
+                for (int j = 0; j < d; j++) {
+                    sum += h0[i * d + j] * x[theta[j]];
+                }
+                linear[i] = sum;
+            }
+            for (int k = 0; k < baseValues.length; k++) {
+                int i = entryRow[k], j = entryColumn[k];
+                baseValues[k] = h0[i * d + j] + (i == j ? priorPrecision[i] : 0);
+            }
+        }
+
+        /**
+         * Newton steps towards the mode of p(theta | sigma, data) from the chain's start, sigma held (each step
+         * re-expands there and moves to the Gaussian's mean, halved until the density does not fall); the last
+         * expansion is the first theta0. The chain's point is not moved.
+         */
+        private void expandAtMode(double[] start) {
+            double[] x = start.clone();
+            double lp = target.logDensity(x);
+            for (int step = 0; step < 50; step++) {
+                expandAt(x);
+                Gaussian g = gaussian(x[m.logSigmaL], x[m.logSigmaS]);
+                if (g == null || !Double.isFinite(lp)) {
+                    return;
+                }
+                double[] trial = x.clone();
+                double t = 1, moved = 0;
+                for (int tries = 0; tries < 30; tries++) {
+                    moved = 0;
+                    for (int i = 0; i < d; i++) {
+                        double delta = t * (g.mean()[i] - x[theta[i]]);
+                        trial[theta[i]] = x[theta[i]] + delta;
+                        moved = Math.max(moved, Math.abs(delta));
+                    }
+                    double lpTrial = target.logDensity(trial);
+                    if (lpTrial >= lp - 1e-9 * Math.abs(lp)) {
+                        lp = lpTrial;
+                        System.arraycopy(trial, 0, x, 0, x.length);
+                        break;
+                    }
+                    t *= 0.5;
+                }
+                if (moved < 1e-6) {
+                    break;
+                }
+            }
+            expandAt(x);
+        }
+    }
+}
