@@ -77,14 +77,6 @@ final class LaplaceMetropolis implements Step {
         return new Chain(target, stream);
     }
 
-    /**
-     * The Gaussian q(theta | sigma): the lower Cholesky factor of its precision (sparse), its mean, sum log L_ii,
-     * and the approximate log marginal density of the drift scales there (up to a constant).
-     */
-    private record Gaussian(org.ejml.data.DMatrixSparseCSC lower, double[] mean, double logRootDet, double logMarginal,
-                            double logSigmaL, double logSigmaS) {
-    }
-
     /** Per chain: the expansion, the random walk's adaptation, scratch. */
     private final class Chain implements Updater {
         private final Target target;
@@ -98,25 +90,11 @@ final class LaplaceMetropolis implements Step {
         private final int[] theta;
         private final int[] position;
         private final int d;
-        /** -Hessian of the log likelihood at theta0 (dense d x d, as the expansion writes it) and H0 theta0 + g0. */
-        private final double[] h0;
-        private final double[] linear;
-        /** The prior's constant part: Q without the walks (diagonal) and b. */
-        private final double[] priorPrecision;
-        private final double[] priorShift;
-        /** The precision's pattern (CSC) and, per stored value, its row and column. */
-        private final org.ejml.data.DMatrixSparseCSC pattern;
-        private final int[] entryRow;
-        private final int[] entryColumn;
-        /** Where the walks' increments sit in the pattern's values: per cohort c >= 1, (c, c), (c-1, c-1), (c, c-1), (c-1, c). */
-        private final int[][] levelWalk;
-        private final int[][] slopeWalk;
-        /** H0 plus the constant prior diagonal, in the pattern's value order. */
-        private final double[] baseValues;
-        private final org.ejml.sparse.csc.decomposition.chol.CholeskyUpLooking_DSCC cholesky;
+        /** The proposal q(theta | sigma) and its expansion. */
+        private final GaussianProposal q;
         private final double[] proposal;
         private final double[] z;
-        private Gaussian current;
+        private GaussianProposal.Gaussian current;
         private int iteration;
         private int windowEnd = 25;
         private int windowSize = 25;
@@ -158,58 +136,10 @@ final class LaplaceMetropolis implements Step {
                     theta[position[i]] = i;
                 }
             }
-            h0 = new double[d * d];
-            linear = new double[d];
             windowSum = new double[d];
-            priorPrecision = new double[d];
-            priorShift = new double[d];
-            priorPrecision[position[m.level]] = 1 / (m.levelSd() * m.levelSd());
-            priorShift[position[m.level]] = m.levelMean() / (m.levelSd() * m.levelSd());
-            priorPrecision[position[m.slope]] = 1 / (m.slopeSd() * m.slopeSd());
-            priorShift[position[m.slope]] = m.slopeMean() / (m.slopeSd() * m.slopeSd());
-            for (int i = m.offLevel; i < m.logSigmaL; i++) {
-                priorPrecision[position[i]] = 1 / (RetentionPosterior.OFFSET_SD * RetentionPosterior.OFFSET_SD);
-            }
-            if (!m.survival) {
-                double v = RetentionPosterior.LOG_KAPPA_SD * RetentionPosterior.LOG_KAPPA_SD;
-                priorPrecision[position[m.logKappa]] = 1 / v;
-                priorShift[position[m.logKappa]] = RetentionPosterior.LOG_KAPPA_MEAN / v;
-            }
-            int series = 2 * m.cohorts;
-            org.ejml.data.DMatrixSparseTriplet triplet = new org.ejml.data.DMatrixSparseTriplet(d, d, 8 * d + 2 * d * (d - series));
-            for (int i = 0; i < d; i++) {
-                for (int j = 0; j < d; j++) {
-                    boolean band = i < series && j < series && Math.abs(i - j) <= 2;
-                    if (band || i >= series || j >= series) {
-                        triplet.addItem(i, j, 1);
-                    }
-                }
-            }
-            pattern = org.ejml.ops.DConvertMatrixStruct.convert(triplet, (org.ejml.data.DMatrixSparseCSC) null, null);
-            entryRow = new int[pattern.nz_length];
-            entryColumn = new int[pattern.nz_length];
-            for (int col = 0; col < d; col++) {
-                for (int k = pattern.col_idx[col]; k < pattern.col_idx[col + 1]; k++) {
-                    entryRow[k] = pattern.nz_rows[k];
-                    entryColumn[k] = col;
-                }
-            }
-            levelWalk = walkEntries(0);
-            slopeWalk = walkEntries(1);
-            baseValues = new double[pattern.nz_length];
-            cholesky = new org.ejml.sparse.csc.decomposition.chol.CholeskyUpLooking_DSCC();
             proposal = new double[size];
             z = new double[d];
-        }
-
-        private int[][] walkEntries(int offset) {
-            int[][] out = new int[Math.max(0, m.cohorts - 1)][];
-            for (int c = 1; c < m.cohorts; c++) {
-                int i = 2 * c + offset, j = 2 * (c - 1) + offset;
-                out[c - 1] = new int[] {pattern.nz_index(i, i), pattern.nz_index(j, j), pattern.nz_index(i, j),
-                    pattern.nz_index(j, i)};
-            }
-            return out;
+            q = new GaussianProposal(m, position, d, normal);
         }
 
         @Override
@@ -219,18 +149,18 @@ final class LaplaceMetropolis implements Step {
                 if (adapt) {
                     expandAtMode(x);
                 } else {
-                    expandAt(x);
+                    q.expandAt(x);
                 }
             }
             double lp = state.logDensity();
             if (current == null || current.logSigmaL() != x[m.logSigmaL] || current.logSigmaS() != x[m.logSigmaS]) {
-                current = gaussian(x[m.logSigmaL], x[m.logSigmaS]);
+                current = q.at(x[m.logSigmaL], x[m.logSigmaS]);
             }
             if (iteration == 0 && adapt && current != null) {
                 // a start far out in the tails would hold an independence chain for long (q is narrow beside the
                 // distance): the first warmup iteration jumps to a draw from q instead
                 System.arraycopy(x, 0, proposal, 0, x.length);
-                draw(current, proposal);
+                q.draw(current, proposal);
                 double lpJump = target.logDensity(proposal);
                 if (Double.isFinite(lpJump)) {
                     System.arraycopy(proposal, 0, x, 0, x.length);
@@ -256,13 +186,13 @@ final class LaplaceMetropolis implements Step {
          * marginal's), theta from q there, accepted with the exact posterior. Returns the new log density.
          */
         private double move(double[] x, double lp, boolean adapt) {
-            double logQ = logQ(current, x);
-            Gaussian next = current;
+            double logQ = q.logQ(current, x);
+            GaussianProposal.Gaussian next = current;
             double scale = Math.exp(logScale);
             int surrogateAccepted = 0;
             for (int step = 0; step < SURROGATE_STEPS; step++) {
                 double zl = normal.sample(), zs = normal.sample();
-                Gaussian trial = gaussian(next.logSigmaL() + scale * rw00 * zl,
+                GaussianProposal.Gaussian trial = q.at(next.logSigmaL() + scale * rw00 * zl,
                         next.logSigmaS() + scale * (rw10 * zl + rw11 * zs));
                 if (trial != null && Math.log(rng.nextDouble()) < trial.logMarginal() - next.logMarginal()) {
                     next = trial;
@@ -275,7 +205,7 @@ final class LaplaceMetropolis implements Step {
             System.arraycopy(x, 0, proposal, 0, x.length);
             proposal[m.logSigmaL] = next.logSigmaL();
             proposal[m.logSigmaS] = next.logSigmaS();
-            double logQNew = draw(next, proposal);
+            double logQNew = q.draw(next, proposal);
             double lpNew = target.logDensity(proposal);
             // p(sigma', theta') / p(sigma, theta) * q(theta | sigma) / q(theta' | sigma') * marginal(sigma) / marginal(sigma')
             double logRatio = (lpNew - logQNew - next.logMarginal()) - (lp - logQ - current.logMarginal());
@@ -300,7 +230,7 @@ final class LaplaceMetropolis implements Step {
             for (int i = 0; i < d; i++) {
                 z[i] = normal.sample();
             }
-            org.ejml.sparse.csc.misc.TriangularSolver_DSCC.solveTranL(current.lower(), z);
+            q.whiten(current, z);
             System.arraycopy(x, 0, proposal, 0, x.length);
             for (int i = 0; i < d; i++) {
                 proposal[theta[i]] += scale * z[i];
@@ -346,7 +276,7 @@ final class LaplaceMetropolis implements Step {
             for (int i = 0; i < d; i++) {
                 centre[theta[i]] = windowSum[i] / windowCount;
             }
-            expandAt(centre);
+            q.expandAt(centre);
             current = null;
             if (rwCount > 10) {
                 double n = rwCount;
@@ -370,115 +300,6 @@ final class LaplaceMetropolis implements Step {
         }
 
         /**
-         * The Gaussian q(theta | sigma) at log sigmaL = l, log sigmaS = s; null when its precision is not
-         * positive definite or not finite (a move there is rejected).
-         */
-        private Gaussian gaussian(double l, double s) {
-            if (!Double.isFinite(l) || !Double.isFinite(s)) {
-                return null;
-            }
-            org.ejml.data.DMatrixSparseCSC p = pattern.copy();
-            System.arraycopy(baseValues, 0, p.nz_values, 0, baseValues.length);
-            addWalk(p.nz_values, levelWalk, Math.exp(-2 * l));
-            addWalk(p.nz_values, slopeWalk, Math.exp(-2 * s));
-            if (!cholesky.isStructureLocked()) {
-                cholesky.performSymbolic(p);
-                cholesky.setStructureLocked(true);
-            }
-            if (!cholesky.decompose(p)) {
-                return null;
-            }
-            org.ejml.data.DMatrixSparseCSC lower = cholesky.getL().copy();
-            double logRootDet = 0;
-            for (int i = 0; i < d; i++) {
-                double v = lower.get(i, i);
-                if (!(v > 0) || !Double.isFinite(v)) {
-                    return null;
-                }
-                logRootDet += Math.log(v);
-            }
-            double[] rhs = new double[d];
-            for (int i = 0; i < d; i++) {
-                rhs[i] = linear[i] + priorShift[i];
-            }
-            double[] mean = rhs.clone();
-            org.ejml.sparse.csc.misc.TriangularSolver_DSCC.solveL(lower, mean);
-            org.ejml.sparse.csc.misc.TriangularSolver_DSCC.solveTranL(lower, mean);
-            double quadratic = 0;
-            for (int i = 0; i < d; i++) {
-                quadratic += mean[i] * rhs[i];
-                if (!Double.isFinite(mean[i])) {
-                    return null;
-                }
-            }
-            // log of p(sigma) times the integral over theta of exp(expansion) p(theta | sigma), up to a constant
-            int increments = m.cohorts - 1;
-            double logMarginal = RetentionPosterior.DRIFT.logDensityOfLog(l) + RetentionPosterior.DRIFT.logDensityOfLog(s)
-                    - increments * (l + s) - logRootDet + 0.5 * quadratic;
-            return new Gaussian(lower, mean, logRootDet, logMarginal, l, s);
-        }
-
-        /** Adds the random walk's precision (1/sigma^2 per increment) at the given entries. */
-        private void addWalk(double[] values, int[][] entries, double precision) {
-            for (int[] e : entries) {
-                values[e[0]] += precision;
-                values[e[1]] += precision;
-                values[e[2]] -= precision;
-                values[e[3]] -= precision;
-            }
-        }
-
-        /** log q(theta | sigma) at the point's theta, up to the constant -d/2 log(2 pi). */
-        private double logQ(Gaussian g, double[] x) {
-            org.ejml.data.DMatrixSparseCSC lower = g.lower();
-            double[] mean = g.mean();
-            double sum = 0;
-            // w = L' (theta - mu): w_j = sum over column j of L of L_ij (theta_i - mu_i)
-            for (int j = 0; j < d; j++) {
-                double w = 0;
-                for (int k = lower.col_idx[j]; k < lower.col_idx[j + 1]; k++) {
-                    int i = lower.nz_rows[k];
-                    w += lower.nz_values[k] * (x[theta[i]] - mean[i]);
-                }
-                sum += w * w;
-            }
-            return -0.5 * sum + g.logRootDet();
-        }
-
-        /** Writes a draw of theta from q into the point; returns its log q (same constant as {@link #logQ}). */
-        private double draw(Gaussian g, double[] x) {
-            double sum = 0;
-            for (int i = 0; i < d; i++) {
-                z[i] = normal.sample();
-                sum += z[i] * z[i];
-            }
-            double logQ = -0.5 * sum + g.logRootDet();
-            org.ejml.sparse.csc.misc.TriangularSolver_DSCC.solveTranL(g.lower(), z);
-            for (int i = 0; i < d; i++) {
-                x[theta[i]] = g.mean()[i] + z[i];
-            }
-            return logQ;
-        }
-
-        /** Expands the likelihood at the point's theta: H0 and H0 theta0 + g0, and the precision's constant part. */
-        private void expandAt(double[] x) {
-            double[] g = new double[m.size];
-            m.density.likelihood(x, g);
-            m.density.negativeHessian(x, position, d, h0, true);
-            for (int i = 0; i < d; i++) {
-                double sum = g[theta[i]];
-                for (int j = 0; j < d; j++) {
-                    sum += h0[i * d + j] * x[theta[j]];
-                }
-                linear[i] = sum;
-            }
-            for (int k = 0; k < baseValues.length; k++) {
-                int i = entryRow[k], j = entryColumn[k];
-                baseValues[k] = h0[i * d + j] + (i == j ? priorPrecision[i] : 0);
-            }
-        }
-
-        /**
          * Newton steps towards the mode of p(theta | sigma, data) from the chain's start, sigma held (each step
          * re-expands there and moves to the Gaussian's mean, halved until the density does not fall); the last
          * expansion is the first theta0. The chain's point is not moved.
@@ -487,8 +308,8 @@ final class LaplaceMetropolis implements Step {
             double[] x = start.clone();
             double lp = target.logDensity(x);
             for (int step = 0; step < 50; step++) {
-                expandAt(x);
-                Gaussian g = gaussian(x[m.logSigmaL], x[m.logSigmaS]);
+                q.expandAt(x);
+                GaussianProposal.Gaussian g = q.at(x[m.logSigmaL], x[m.logSigmaS]);
                 if (g == null || !Double.isFinite(lp)) {
                     return;
                 }
@@ -513,7 +334,7 @@ final class LaplaceMetropolis implements Step {
                     break;
                 }
             }
-            expandAt(x);
+            q.expandAt(x);
         }
     }
 }
