@@ -36,9 +36,10 @@ import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
  * ratio is the expansion's error alone, so the drift scales travel as if theta were integrated out: no funnel
  * however small they are, and no tuning of a step along thousands of cells.
  *
- * <p>Every {@value #LOCAL_EVERY} iterations a random-walk Metropolis step of theta follows, with covariance
- * proportional to q's: it does not depend on q covering the posterior's tails, so where the expansion is poor
- * (few installs, a broad kappa) a chain that an independence proposal would hold at one point walks on.
+ * <p>Every {@value #LOCAL_EVERY} iterations a local step of theta follows (preconditioned Crank-Nicolson: an
+ * autoregressive move that keeps q invariant, accepted with the ratio of p / q): it does not depend on q covering
+ * the posterior's tails, so where the expansion is poor (few installs, a broad kappa) a chain that an
+ * independence proposal would hold at one point walks on.
  *
  * <p>Warmup: at the first iteration, theta0 is the mode of p(theta | sigma, data) at the chain's start (Newton
  * steps with a backtracking line search); it is moved to the mean of the draws at the end of warmup windows of
@@ -57,9 +58,9 @@ final class LaplaceMetropolis implements Step {
     static final double TARGET_ACCEPTANCE = 0.3;
     /** Random-walk steps of the drift scales under their approximate marginal before each joint proposal. */
     static final int SURROGATE_STEPS = 10;
-    /** Acceptance the local random walk aims for (common practice for random-walk Metropolis in many dimensions). */
-    static final double LOCAL_ACCEPTANCE = 0.234;
-    /** The local random walk runs every this many iterations (a fixed cycle, so each kernel keeps the posterior). */
+    /** Acceptance the local step aims for during warmup (common practice for Metropolis steps in many dimensions). */
+    static final double LOCAL_ACCEPTANCE = 0.3;
+    /** The local step runs every this many iterations (a fixed cycle, so each kernel keeps the posterior). */
     static final int LOCAL_EVERY = 2;
     private final RetentionPosterior m;
     private final int warmup;
@@ -107,8 +108,8 @@ final class LaplaceMetropolis implements Step {
         private int rwCount;
         private int adaptStep;
         private long moves;
-        /** The local random walk's log scale (times 1/sqrt(d)) and its adaptation count. */
-        private double localLogScale = Math.log(2.38);
+        /** The local step's log b and its adaptation count. */
+        private double localLogScale = Math.log(0.5);
         private int localStep;
         private long accepted;
 
@@ -220,27 +221,32 @@ final class LaplaceMetropolis implements Step {
         }
 
         /**
-         * A random-walk Metropolis step of theta with the drift scales held, its covariance s^2 P^-1 (P the current
-         * Gaussian's precision), s tuned in warmup towards acceptance {@value #LOCAL_ACCEPTANCE}. It does not
-         * rely on q covering the posterior's tails: where the expansion is poor (few installs, a broad kappa), an
-         * independence proposal alone can hold a chain at a point q underweights; this step walks it on.
+         * A preconditioned Crank-Nicolson step of theta with the drift scales held (Cotter, Roberts, Stuart &amp;
+         * White 2013, "MCMC methods for functions", Statistical Science 28(3):424-446; citation from memory):
+         * theta' = mu + sqrt(1 - b^2)(theta - mu) + b e, e ~ N(0, P^-1), which leaves q itself invariant, accepted
+         * with the ratio of p / q at the two points; b tuned in warmup towards acceptance
+         * {@value #LOCAL_ACCEPTANCE}. Being local, it does not rely on q covering the posterior's tails: where the
+         * expansion is poor (few installs, a broad kappa), an independence proposal alone can hold a chain at a
+         * point q underweights; this step walks it on, at a rate that does not fall with the dimension.
          */
         private double localMove(double[] x, double lp, boolean adapt) {
-            double scale = Math.exp(localLogScale) / Math.sqrt(d);
+            double b = Math.min(1, Math.exp(localLogScale)), keep = Math.sqrt(1 - b * b);
             for (int i = 0; i < d; i++) {
                 z[i] = normal.sample();
             }
             q.whiten(current, z);
             System.arraycopy(x, 0, proposal, 0, x.length);
+            double[] mean = current.mean();
             for (int i = 0; i < d; i++) {
-                proposal[theta[i]] += scale * z[i];
+                proposal[theta[i]] = mean[i] + keep * (x[theta[i]] - mean[i]) + b * z[i];
             }
             double lpNew = target.logDensity(proposal);
-            double acceptance = Double.isFinite(lpNew) ? Math.exp(Math.min(0, lpNew - lp)) : 0;
+            double logRatio = (lpNew - q.logQ(current, proposal)) - (lp - q.logQ(current, x));
+            double acceptance = Double.isFinite(lpNew) ? Math.exp(Math.min(0, logRatio)) : 0;
             if (adapt) {
                 localStep++;
                 localLogScale += (acceptance - LOCAL_ACCEPTANCE) / Math.pow(localStep, 0.6);
-                localLogScale = Math.max(-10, Math.min(3, localLogScale));
+                localLogScale = Math.max(-10, Math.min(0, localLogScale));
             }
             if (Double.isFinite(lpNew) && rng.nextDouble() < acceptance) {
                 System.arraycopy(proposal, 0, x, 0, x.length);
