@@ -2,11 +2,13 @@ package dev.cairn.models;
 
 import dev.cairn.models.spec.Spec;
 import dev.cairn.models.spec.SpecReader;
-import dev.cairn.models.pooled.PooledFit;
-import dev.cairn.models.retention.RetentionFit;
-import dev.cairn.models.segmented.SegmentedFit;
-import dev.cairn.models.spend.SpendFit;
+import dev.cairn.models.pooled.PooledModel;
+import dev.cairn.models.retention.RetentionModel;
+import dev.cairn.models.segmented.SegmentedModel;
+import dev.cairn.models.spend.SpendModel;
 import java.nio.file.Path;
+import java.util.LinkedHashMap;
+import java.util.Map;
 
 /**
  * The Java API: everything the command line does, for other JVM tools to call.
@@ -23,23 +25,71 @@ public final class Cairn {
     private Cairn() {
     }
 
-    /** Reads, validates and fits a spec file; data paths are relative to the spec's folder. */
+    /**
+     * Reads, validates and fits a spec file; data paths are relative to the spec's folder.
+     *
+     * @param specFile the spec
+     * @param options  threads, progress, cancellation
+     * @return the result, draws and figures
+     * @throws InputException one line naming the file, field, row or column of bad input
+     */
     public static FitOutcome fit(Path specFile, FitOptions options) {
         Spec spec = SpecReader.read(specFile);
         Path base = specFile.toAbsolutePath().getParent();
         return fit(spec, base, options);
     }
 
-    /** Fits a validated spec; relative data paths resolve against {@code baseDir}. */
+    /** Every model, by the spec's "model" name: adding a model is one line here. */
+    private static final Map<String, Model> MODELS = registry(new SpendModel(), new PooledModel(),
+            new SegmentedModel(), new RetentionModel());
+
+    private static Map<String, Model> registry(Model... models) {
+        Map<String, Model> out = new LinkedHashMap<>();
+        for (Model m : models) {
+            if (out.put(m.name(), m) != null) {
+                throw new IllegalStateException("two models named " + m.name());
+            }
+        }
+        return java.util.Collections.unmodifiableMap(out);
+    }
+
+    /**
+     * The registered models, in registration order.
+     *
+     * @return every model cairn fits
+     */
+    public static java.util.Collection<Model> models() {
+        return MODELS.values();
+    }
+
+    /**
+     * The model of a name.
+     *
+     * @param name the spec's "model" value
+     * @return the model
+     * @throws InputException naming the known models when there is none of that name
+     */
+    public static Model model(String name) {
+        Model m = MODELS.get(name);
+        if (m == null) {
+            throw new InputException("/model: unknown model '" + name + "'; known: " + String.join(", ", MODELS.keySet()));
+        }
+        return m;
+    }
+
+    /**
+     * Fits a validated spec; relative data paths resolve against {@code baseDir}.
+     *
+     * @param spec    a spec from {@link SpecReader}
+     * @param baseDir the folder relative data paths resolve against
+     * @param options threads, progress, cancellation
+     * @return the result, draws and figures
+     * @throws InputException for bad data, or data the model gives zero probability everywhere
+     */
     public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
+        Model model = model(spec.model());
         try {
-            return switch (spec.model()) {
-                case "spend" -> SpendFit.fit(spec, baseDir, options);
-                case "pooled-effects" -> PooledFit.fit(spec, baseDir, options);
-                case "segmented-spend" -> SegmentedFit.fit(spec, baseDir, options);
-                case "retention" -> RetentionFit.fit(spec, baseDir, options);
-                default -> throw new InputException("/model: unknown model '" + spec.model() + "'");
-            };
+            return model.fit(spec, baseDir, options);
         } catch (dev.cairn.samplers.NoStartException e) {
             // the posterior is zero wherever the sampler looked: data the model cannot produce, not a cairn bug
             throw new InputException("/data: the model gives these data zero probability at every starting point ("

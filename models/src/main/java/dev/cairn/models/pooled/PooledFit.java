@@ -1,24 +1,19 @@
 package dev.cairn.models.pooled;
 
-import dev.cairn.diagnostics.DiagnosticsReport;
+import dev.cairn.models.Fitting;
 import dev.cairn.models.FitOptions;
-import dev.cairn.models.FitSupport;
 import dev.cairn.models.FitOutcome;
 import dev.cairn.models.InputException;
-import dev.cairn.models.Version;
 import dev.cairn.models.data.Estimates;
 import dev.cairn.models.result.DataInfo;
-import dev.cairn.models.result.DiagnosticsSummary;
 import dev.cairn.models.result.Interval;
 import dev.cairn.models.result.PooledResult;
 import dev.cairn.models.result.Result;
-import dev.cairn.models.result.Run;
 import dev.cairn.models.spec.SamplerSpec;
 import dev.cairn.models.spec.Spec;
 import dev.cairn.samplers.Draws;
 import dev.cairn.samplers.RunSettings;
 import java.nio.file.Path;
-import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -29,7 +24,7 @@ public final class PooledFit {
     }
 
     public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
-        long start = System.nanoTime();
+        Fitting fitting = Fitting.start(spec, options);
         Estimates data = Estimates.read(spec.data(), baseDir);
         PooledPriors priors = PooledPriors.of(spec.priorsOrEmpty(), data);
         SamplerSpec s = spec.samplerOrDefault();
@@ -37,11 +32,11 @@ public final class PooledFit {
             throw new InputException("/sampler/method: pooled-effects has no closed-form posterior; use 'auto' "
                     + "(slice sampling of tau with mu and the effects drawn exactly)");
         }
-        RunSettings settings = FitSupport.runSettings(spec, options, false);
+        RunSettings settings = fitting.settings(false);
         Draws draws = PooledEffectsPosterior.sample(data, priors, settings, options.progress(), options.cancellation());
 
-        DiagnosticsReport report = FitSupport.diagnose(draws, spec);
-        double level = spec.interval();
+        fitting.diagnose(draws);
+        double level = fitting.level();
         Map<String, Interval> effects = new LinkedHashMap<>();
         Map<String, PooledResult.Raw> raw = new LinkedHashMap<>();
         Map<String, Double> positive = new LinkedHashMap<>();
@@ -58,19 +53,12 @@ public final class PooledFit {
         }
         Interval predictive = Interval.of(draws.pooled(PooledEffectsPosterior.PREDICTIVE), level);
         PooledResult.InformedPrior informed = new PooledResult.InformedPrior("normal", predictive.mean(), predictive.sd());
-        List<String> warnings = new ArrayList<>();
-        if (!report.converged()) {
-            warnings.add(FitSupport.notConverged(report));
-        }
-        double seconds = Math.round((System.nanoTime() - start) / 1e6) / 1e3;
-        PooledResult result = new PooledResult("pooled-effects", spec.title(), report.converged(), level,
+        PooledResult result = new PooledResult("pooled-effects", spec.title(), fitting.converged(), level,
                 new DataInfo(data.source(), "estimates", data.size(), 0, data.query()), effects, raw, positive,
                 Interval.of(draws.pooled(PooledEffectsPosterior.MU), level),
                 Interval.of(draws.pooled(PooledEffectsPosterior.TAU), level), predictive, informed,
-                DiagnosticsSummary.of(report),
-                new Run("collapsed-slice", settings.chains(), settings.warmup(), settings.draws(), settings.thin(),
-                        settings.seed(), seconds, Version.get()),
-                priors, warnings, Result.CAUTIONS);
+                fitting.summary(), fitting.run("collapsed-slice", null),
+                priors, fitting.warnings(List.of()), Result.CAUTIONS);
         return new FitOutcome(result, draws);
     }
 }

@@ -1,15 +1,13 @@
 package dev.cairn.models.retention;
 
-import dev.cairn.diagnostics.DiagnosticsReport;
+import dev.cairn.models.Fitting;
 import dev.cairn.models.FitOptions;
 import dev.cairn.models.FitOutcome;
 import dev.cairn.models.FitSupport;
 import dev.cairn.models.InputException;
-import dev.cairn.models.Version;
 import dev.cairn.models.data.CohortDays;
 import dev.cairn.models.result.Comparison;
 import dev.cairn.models.result.DataInfo;
-import dev.cairn.models.result.DiagnosticsSummary;
 import dev.cairn.models.result.Interval;
 import dev.cairn.models.result.Result;
 import dev.cairn.models.result.CohortRow;
@@ -17,9 +15,7 @@ import dev.cairn.models.result.Ltv;
 import dev.cairn.models.result.Metric;
 import dev.cairn.models.result.RetentionArm;
 import dev.cairn.models.result.RetentionResult;
-import dev.cairn.models.result.Run;
 import dev.cairn.models.spec.Spec;
-import dev.cairn.models.spend.SpendAnalysis;
 import dev.cairn.samplers.Draws;
 import dev.cairn.samplers.RandomStreams;
 import dev.cairn.samplers.RunSettings;
@@ -36,10 +32,10 @@ public final class RetentionFit {
     private RetentionFit() {
     }
 
-    public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
-        long start = System.nanoTime();
-        boolean survival = "survival".equals(spec.curve());
-        List<Integer> days = spec.daysOrDefault();
+    static FitOutcome fit(Spec spec, RetentionModel.Options own, Path baseDir, FitOptions options) {
+        Fitting fitting = Fitting.start(spec, options);
+        boolean survival = "survival".equals(own.curve());
+        List<Integer> days = own.daysOrDefault();
         if (days.stream().distinct().count() != days.size()) {
             throw new InputException("/days: each day once, was " + days);
         }
@@ -51,15 +47,15 @@ public final class RetentionFit {
         String method = FitSupport.gradientMethod(spec.samplerOrDefault().method(), "retention",
                 RetentionPosterior.AUTO, RetentionPosterior.LAPLACE_METROPOLIS);
         RetentionPosterior model = new RetentionPosterior(data, control, survival, method.equals(RetentionPosterior.LAPLACE_METROPOLIS));
-        RunSettings settings = FitSupport.runSettings(spec, options, false);
+        RunSettings settings = fitting.settings(false);
         Draws internal = model.sample(method, settings, options.progress(), options.cancellation());
 
-        int horizon = spec.ltv() == null ? 0 : spec.ltv().horizon();
-        double[][] revenue = spec.ltv() == null ? null
-                : revenueDraws(spec, baseDir, arms, settings.chains() * settings.draws(), settings.seed(), settings.chains());
+        int horizon = own.ltv() == null ? 0 : own.ltv().horizon();
+        double[][] revenue = own.ltv() == null ? null
+                : revenueDraws(own.ltv(), baseDir, arms, settings.chains() * settings.draws(), settings.seed(), settings.chains());
         Draws draws = RetentionOutputs.of(internal, model, data.cohorts(), arms, days, horizon, revenue);
-        DiagnosticsReport report = FitSupport.diagnose(draws, spec);
-        double level = spec.interval();
+        fitting.diagnose(draws);
+        double level = fitting.level();
 
         Map<String, RetentionArm> armOut = new LinkedHashMap<>();
         for (int k = 0; k < arms.size(); k++) {
@@ -112,21 +108,14 @@ public final class RetentionFit {
             }
             ltv = new Ltv(horizon, byArm);
         }
-        List<String> warnings = new ArrayList<>();
-        if (!report.converged()) {
-            warnings.add(FitSupport.notConverged(report));
-        }
-        double seconds = Math.round((System.nanoTime() - start) / 1e6) / 1e3;
         RetentionResult.Priors priors = new RetentionResult.Priors("RetentionPosterior: " + (survival
                 ? "log alpha_1 ~ N(0, 1.5^2), log beta_1 ~ N(1, 1.5^2)"
                 : "day-7 logit level_1 ~ N(-1.5, 2^2), slope_1 ~ N(-0.6, 1), log kappa ~ N(log 100, 1.5^2)")
                 + "; arm offsets ~ N(0, 1); drift scales ~ half-N(0.25)");
-        RetentionResult result = new RetentionResult("retention", spec.title(), report.converged(), spec.curve(), control,
+        RetentionResult result = new RetentionResult("retention", spec.title(), fitting.converged(), own.curve(), control,
                 level, days, new DataInfo(data.source(), "cohort-days", data.rows(), 0, null), armOut, comparisons,
-                cohorts, drift, ltv, DiagnosticsSummary.of(report),
-                new Run(method, settings.chains(), settings.warmup(), settings.draws(), settings.thin(),
-                        settings.seed(), seconds, Version.get()),
-                priors, warnings, Result.CAUTIONS);
+                cohorts, drift, ltv, fitting.summary(), fitting.run(method, null),
+                priors, fitting.warnings(List.of()), Result.CAUTIONS);
         return new FitOutcome(result, draws, curveBands(internal, model, data, days, level, horizon));
     }
 
@@ -206,8 +195,8 @@ public final class RetentionFit {
     }
 
     /** Revenue per active day per arm and draw: a fixed number, or R + se z from a table (seeded). */
-    static double[][] revenueDraws(Spec spec, Path baseDir, List<String> arms, int total, long seed, int chains) {
-        com.fasterxml.jackson.databind.JsonNode v = spec.ltv().revenuePerActiveDay();
+    static double[][] revenueDraws(RetentionModel.Ltv ltv, Path baseDir, List<String> arms, int total, long seed, int chains) {
+        com.fasterxml.jackson.databind.JsonNode v = ltv.revenuePerActiveDay();
         double[][] out = new double[arms.size()][total];
         if (v.isNumber()) {
             for (double[] row : out) {

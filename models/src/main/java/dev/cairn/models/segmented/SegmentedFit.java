@@ -1,24 +1,20 @@
 package dev.cairn.models.segmented;
 
-import dev.cairn.diagnostics.DiagnosticsReport;
+import dev.cairn.models.Fitting;
 import dev.cairn.models.FitOptions;
 import dev.cairn.models.FitOutcome;
 import dev.cairn.models.FitSupport;
-import dev.cairn.models.Version;
 import dev.cairn.models.data.ArmStats;
 import dev.cairn.models.data.SegmentedSpendData;
 import dev.cairn.models.data.SpendDataReader;
 import dev.cairn.models.result.ArmSummary;
 import dev.cairn.models.result.Comparison;
 import dev.cairn.models.result.DataInfo;
-import dev.cairn.models.result.DiagnosticsSummary;
 import dev.cairn.models.result.Interval;
 import dev.cairn.models.result.Metric;
 import dev.cairn.models.result.Result;
-import dev.cairn.models.result.Run;
 import dev.cairn.models.result.SegmentSummary;
 import dev.cairn.models.spec.Spec;
-import dev.cairn.models.spend.SpendAnalysis;
 import dev.cairn.samplers.Draws;
 import dev.cairn.samplers.RunSettings;
 import java.nio.file.Path;
@@ -32,15 +28,15 @@ public final class SegmentedFit {
     private SegmentedFit() {
     }
 
-    public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
-        long start = System.nanoTime();
+    static FitOutcome fit(Spec spec, SegmentedModel.Options own, Path baseDir, FitOptions options) {
+        Fitting fitting = Fitting.start(spec, options);
         SegmentedSpendData data = SpendDataReader.readSegmented(spec.data(), baseDir, spec.isStrict());
         List<String> arms = data.arms();
         List<String> segments = data.segments();
         String control = FitSupport.control(spec, arms, data.source());
         String method = FitSupport.gradientMethod(spec.samplerOrDefault().method(), "segmented-spend", "nuts");
-        SegmentedPosterior model = new SegmentedPosterior(data, control, spec.parameterisation());
-        RunSettings settings = FitSupport.runSettings(spec, options, false);
+        SegmentedPosterior model = new SegmentedPosterior(data, control, own.parameterisation());
+        RunSettings settings = fitting.settings(false);
         Draws internal = model.sample(method, settings, options.progress(), options.cancellation());
 
         long total = 0;
@@ -58,8 +54,8 @@ public final class SegmentedFit {
         Draws draws = model.outputs(internal, weights);
         FitSupport.requireFinite(draws, "spend per payer overflows for these data and priors; check the spend "
                 + "values (log-spend sums) or give tighter priors");
-        DiagnosticsReport report = FitSupport.diagnose(draws, spec);
-        double level = spec.interval();
+        fitting.diagnose(draws);
+        double level = fitting.level();
         List<String> metrics = Metric.spend(data.hasSpend()).stream().map(Metric::key).toList();
 
         Map<String, long[]> totals = data.armTotals();
@@ -98,24 +94,18 @@ public final class SegmentedFit {
                     .toList();
             perSegment.put(seg, new SegmentSummary(users, cells, segComparisons, notes.isEmpty() ? null : notes));
         }
-        if (!report.converged()) {
-            warnings.add(0, FitSupport.notConverged(report));
-        }
         Map<String, Map<String, Double>> probBest = new LinkedHashMap<>();
         for (String metric : metrics) {
             probBest.put(metric, dev.cairn.models.decision.Decisions.probBest(arms,
                     arm -> draws.pooled(SegmentedOutputs.cell(metric, SegmentedOutputs.POPULATION, arm))));
         }
-        double seconds = Math.round((System.nanoTime() - start) / 1e6) / 1e3;
-        Result result = new Result("segmented-spend", spec.title(), report.converged(), control, level,
+        Result result = new Result("segmented-spend", spec.title(), fitting.converged(), control, level,
                 new DataInfo(data.source(), spec.data().layout(), data.rows(), total, data.query()), overall,
-                comparisons, perSegment, probBest, List.of(), DiagnosticsSummary.of(report),
-                new Run(method, settings.chains(), settings.warmup(), settings.draws(),
-                        settings.thin(), settings.seed(), seconds, Version.get(),
-                        model.layout.describe(spec.parameterisation())),
+                comparisons, perSegment, probBest, List.of(), fitting.summary(),
+                fitting.run(method, model.layout.describe(own.parameterisation())),
                 Map.of("hyperpriors", "documented in SegmentedDensity: alpha0 ~ N(-3, 2^2); D, E ~ N(0, 1); "
                         + "beta0 ~ N(0, 5^2); s0 ~ N(0, 1); tauAlpha, tauBeta ~ half-N(1); tauD, tauE, tauS ~ half-N(0.5)"),
-                warnings, Result.CAUTIONS);
+                fitting.warnings(warnings), Result.CAUTIONS);
         return new FitOutcome(result, draws);
     }
 

@@ -19,17 +19,38 @@ public record Spec(
         DecisionSpec decision,
         ConvergenceSpec convergence,
         Boolean strict,
-        String parameterisation,
-        String curve,
-        java.util.List<Integer> days,
-        LtvSpec ltv) {
+        @com.fasterxml.jackson.annotation.JsonIgnore com.fasterxml.jackson.databind.JsonNode tree) {
 
-    /** retention: LTV horizon and revenue per active day (a number or a table's path). */
-    public record LtvSpec(int horizon, com.fasterxml.jackson.databind.JsonNode revenuePerActiveDay) {
+    /** Binds a model's own options, ignoring the other keys (the schema has checked them). */
+    private static final com.fasterxml.jackson.databind.ObjectMapper OPTIONS = new com.fasterxml.jackson.databind.ObjectMapper()
+            .disable(com.fasterxml.jackson.databind.DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES)
+            .enable(com.fasterxml.jackson.databind.DeserializationFeature.FAIL_ON_NULL_FOR_PRIMITIVES);
+
+    /**
+     * The same spec holding the JSON it was read from (its models read their own options from it).
+     *
+     * @param source the spec's JSON object
+     * @return the spec
+     */
+    public Spec withTree(com.fasterxml.jackson.databind.JsonNode source) {
+        return new Spec(schema, title, model, data, control, priors, sampler, decision, convergence, strict, source);
     }
 
-    public java.util.List<Integer> daysOrDefault() {
-        return days == null ? java.util.List.of(1, 7, 30) : days;
+    /**
+     * A model's own options (top-level keys such as retention's "curve"), bound to the model's record type;
+     * keys the type does not name are ignored.
+     *
+     * @param type the model's options record
+     * @param <T>  its type
+     * @return the options, fields absent from the spec null
+     * @throws dev.cairn.models.InputException when a value does not fit the type
+     */
+    public <T> T options(Class<T> type) {
+        try {
+            return OPTIONS.treeToValue(tree == null ? OPTIONS.createObjectNode() : tree, type);
+        } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
+            throw new dev.cairn.models.InputException("spec: " + e.getOriginalMessage());
+        }
     }
 
     public SamplerSpec samplerOrDefault() {

@@ -106,9 +106,13 @@ public final class SpecReader {
         });
         Spec spec;
         try {
-            spec = MAPPER.treeToValue(tree, Spec.class);
+            // the schema has refused unknown keys; the models' own options are bound by each model
+            spec = MAPPER.readerFor(Spec.class).without(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES)
+                    .<Spec>readValue(tree).withTree(tree);
         } catch (JsonProcessingException e) {
             throw new InputException(origin + ": " + e.getOriginalMessage());
+        } catch (IOException e) {
+            throw new InputException(origin + ": " + e.getMessage());
         }
         checkRules(spec, origin);
         return spec;
@@ -199,66 +203,31 @@ public final class SpecReader {
         return previous[b.length()];
     }
 
-    /** Rules across fields that the schema does not express. */
+    /**
+     * Rules across fields that the schema does not express: the model's data layout and own keys (any model),
+     * then the model's own rules ({@link dev.cairn.models.Model#check}), then the sampler's and the data's.
+     */
     private static void checkRules(Spec spec, String origin) {
-        PriorsSpec p = spec.priorsOrEmpty();
-        boolean pooled = "pooled-effects".equals(spec.model());
-        boolean retention = "retention".equals(spec.model());
-        if (retention != "cohort-days".equals(spec.data().layout())) {
-            throw new InputException(origin + ": /data/layout: model '" + spec.model() + "' "
-                    + (retention ? "needs layout 'cohort-days'" : "does not take layout 'cohort-days'"));
+        dev.cairn.models.Model model = dev.cairn.models.Cairn.model(spec.model());
+        String layout = spec.data().layout();
+        if (!model.layouts().contains(layout)) {
+            throw new InputException(origin + ": /data/layout: model '" + model.name() + "' "
+                    + (model.layouts().size() == 1 ? "needs layout '" + model.layouts().get(0) + "'"
+                    : "takes layout " + model.layouts().stream().map(l -> "'" + l + "'")
+                    .collect(java.util.stream.Collectors.joining(" or ")) + ", not '" + layout + "'"));
         }
-        if (!retention && (spec.curve() != null || spec.days() != null || spec.ltv() != null)) {
-            throw new InputException(origin + ": /" + (spec.curve() != null ? "curve" : spec.days() != null ? "days" : "ltv")
-                    + ": belongs to model 'retention'");
+        for (dev.cairn.models.Model other : dev.cairn.models.Cairn.models()) {
+            if (other == model) {
+                continue;
+            }
+            for (String key : other.ownKeys()) {
+                if (spec.tree() != null && spec.tree().has(key) && !model.ownKeys().contains(key)) {
+                    throw new InputException(origin + ": /" + key + ": applies to model '" + other.name() + "' only");
+                }
+            }
         }
-        if (retention && spec.curve() == null) {
-            throw new InputException(origin + ": /curve: required for model 'retention' ('activity' or 'survival')");
-        }
-        if (retention && (p.anySpend() || p.mu() != null || p.tau() != null)) {
-            throw new InputException(origin + ": /priors: retention uses its own documented priors; remove them");
-        }
-        if (retention) {
-            // fall through: the layout check below is for the other models
-        } else if (pooled != "estimates".equals(spec.data().layout())) {
-            throw new InputException(origin + ": /data/layout: model '" + spec.model() + "' "
-                    + (pooled ? "needs layout 'estimates'" : "takes layout 'users' or 'summary', not 'estimates'"));
-        }
-        if (pooled && p.anySpend()) {
-            throw new InputException(origin + ": /priors: pooled-effects takes 'mu' and 'tau' priors only");
-        }
-        if (spec.parameterisation() != null && !"segmented-spend".equals(spec.model())) {
-            throw new InputException(origin + ": /parameterisation: applies to model 'segmented-spend' only");
-        }
-        if ("segmented-spend".equals(spec.model()) && p.anySpend()) {
-            throw new InputException(origin + ": /priors: segmented-spend uses its own documented hierarchical "
-                    + "priors; remove the spend priors");
-        }
-        if (!pooled && (p.mu() != null || p.tau() != null)) {
-            throw new InputException(origin + ": /priors/" + (p.mu() != null ? "mu" : "tau")
-                    + ": belongs to model 'pooled-effects', not '" + spec.model() + "'");
-        }
-        if (p.tau() != null && "uniform".equals(p.tau().family()) && !(p.tau().upper() > p.tau().lower())) {
-            throw new InputException(origin + ": /priors/tau: upper must be greater than lower, was lower "
-                    + p.tau().lower() + ", upper " + p.tau().upper());
-        }
-        if (p.logSpend() != null && p.nonConjugate()) {
-            throw new InputException(origin + ": /priors: give either 'logSpend' (conjugate) or 'logSpendMean' and "
-                    + "'logSpendSd' (non-conjugate), not both");
-        }
-        if (p.nonConjugate() && (p.logSpendMean() == null || p.logSpendSd() == null)) {
-            throw new InputException(origin + ": /priors/" + (p.logSpendMean() == null ? "logSpendMean" : "logSpendSd")
-                    + ": required with '" + (p.logSpendMean() == null ? "logSpendSd" : "logSpendMean") + "'");
-        }
-        if (p.fromHistory() != null && (p.logSpend() != null || p.nonConjugate() || p.payerRate() != null)) {
-            throw new InputException(origin + ": /priors/fromHistory: fits the payer-rate and log-spend priors itself; "
-                    + "remove 'payerRate', 'logSpend', 'logSpendMean' and 'logSpendSd'");
-        }
+        model.check(spec, origin);
         SamplerSpec s = spec.samplerOrDefault();
-        if ("exact".equals(s.method()) && p.nonConjugate()) {
-            throw new InputException(origin + ": /sampler/method: 'exact' needs conjugate priors, but 'logSpendMean'/"
-                    + "'logSpendSd' are not; use 'auto', 'slice' or 'metropolis-within-gibbs'");
-        }
         long kept = (long) s.chains() * s.draws();
         if (kept > MAX_KEPT_DRAWS) {
             throw new InputException(origin + ": /sampler: chains x draws = " + kept + " is more than "

@@ -1,19 +1,16 @@
 package dev.cairn.models.spend;
 
-import dev.cairn.diagnostics.DiagnosticsReport;
+import dev.cairn.models.Fitting;
 import dev.cairn.models.FitOptions;
 import dev.cairn.models.FitSupport;
 import dev.cairn.models.FitOutcome;
 import dev.cairn.models.InputException;
-import dev.cairn.models.Version;
 import dev.cairn.models.data.ArmStats;
 import dev.cairn.models.data.SpendData;
 import dev.cairn.models.data.SpendDataReader;
 import dev.cairn.models.result.Check;
 import dev.cairn.models.result.DataInfo;
-import dev.cairn.models.result.DiagnosticsSummary;
 import dev.cairn.models.result.Result;
-import dev.cairn.models.result.Run;
 import dev.cairn.models.spec.SamplerSpec;
 import dev.cairn.models.spec.Spec;
 import dev.cairn.samplers.Draws;
@@ -28,7 +25,7 @@ public final class SpendFit {
     }
 
     public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
-        long start = System.nanoTime();
+        Fitting fitting = Fitting.start(spec, options);
         SpendData data = SpendDataReader.read(spec.data(), baseDir, spec.isStrict());
         List<String> arms = data.armNames();
         String control = FitSupport.control(spec, arms, data.source());
@@ -47,7 +44,7 @@ public final class SpendFit {
         }
         SamplerSpec s = spec.samplerOrDefault();
         String method = method(s.method(), priors, data);
-        RunSettings settings = FitSupport.runSettings(spec, options, method.equals("exact"));
+        RunSettings settings = fitting.settings(method.equals("exact"));
 
         Draws draws = method.equals("exact")
                 ? SpendPosterior.exact(data, priors, settings, options.progress(), options.cancellation())
@@ -57,31 +54,26 @@ public final class SpendFit {
         FitSupport.requireFinite(draws, "the spend prior is too wide for the data (spend per payer overflows); give "
                 + "tighter priors.logSpendMean and priors.logSpendSd, or check the spend values");
 
-        DiagnosticsReport report = FitSupport.diagnose(draws, spec);
+        fitting.diagnose(draws);
 
-        double level = spec.interval();
+        double level = fitting.level();
         java.util.Map<String, double[]> replicated = new java.util.LinkedHashMap<>();
         List<Check> checks = SpendAnalysis.checks(draws, data, s.seed(), s.chains(), replicated);
-        List<String> warnings = new ArrayList<>(data.warnings());
-        warnings.addAll(SpendAnalysis.warnings(checks));
-        if (!report.converged()) {
-            warnings.add(0, FitSupport.notConverged(report));
-        }
+        List<String> own = new ArrayList<>(data.warnings());
+        own.addAll(SpendAnalysis.warnings(checks));
+        List<String> warnings = fitting.warnings(own);
         for (ArmStats a : data.arms()) {
             if (data.hasSpend() && a.payers() == 0) {
                 warnings.add("arm " + a.arm() + ": no payers, so its ARPPU comes from the prior alone.");
             }
         }
         long users = data.arms().stream().mapToLong(ArmStats::users).sum();
-        double seconds = Math.round((System.nanoTime() - start) / 1e6) / 1e3;
-        Result result = new Result("spend", spec.title(), report.converged(), control, level,
+        Result result = new Result("spend", spec.title(), fitting.converged(), control, level,
                 new DataInfo(data.source(), spec.data().layout(), data.rows(), users, data.query()),
                 SpendAnalysis.arms(draws, data, level),
                 SpendAnalysis.comparisons(draws, data, control, level), null,
                 SpendAnalysis.probBest(draws, data),
-                checks, DiagnosticsSummary.of(report),
-                new Run(method, settings.chains(), settings.warmup(), settings.draws(), settings.thin(), settings.seed(),
-                        seconds, Version.get()),
+                checks, fitting.summary(), fitting.run(method, null),
                 priors, warnings, Result.CAUTIONS);
         return new FitOutcome(result, draws, new dev.cairn.models.Figures(replicated, java.util.Map.of()));
     }
