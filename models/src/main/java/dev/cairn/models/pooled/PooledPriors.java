@@ -22,7 +22,7 @@ import dev.cairn.models.spec.PriorsSpec;
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record PooledPriors(String muFamily, Double muMean, Double muSd, String tauFamily, Double tauLower,
-                           Double tauUpper, Double tauScale, String source) {
+                           Double tauUpper, Double tauScale, String source) implements dev.cairn.models.result.PriorsUsed {
 
     public static PooledPriors of(PriorsSpec p, Estimates data) {
         String muFamily = "flat";

@@ -19,7 +19,7 @@ import java.util.Map;
 public record PooledResult(String model, String title, boolean converged, double interval, DataInfo data,
                            Map<String, Interval> effects, Map<String, Raw> raw, Map<String, Double> probPositive,
                            Interval mu, Interval tau, Interval predictive, InformedPrior informedPrior,
-                           DiagnosticsSummary diagnostics, Run run, Object priors, List<String> warnings,
+                           DiagnosticsSummary diagnostics, Run run, PriorsUsed priors, List<String> warnings,
                            List<String> cautions) implements FitResult {
 
     /** A prior for a new effect, as a spec writes it: {@code {"family": "normal", "mean", "sd"}}. */

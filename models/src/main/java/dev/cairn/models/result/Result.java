@@ -20,7 +20,7 @@ import java.util.Map;
 public record Result(String model, String title, boolean converged, String control, double interval, DataInfo data,
                      Map<String, ArmSummary> arms, List<Comparison> comparisons, Map<String, SegmentSummary> segments,
                      Map<String, Map<String, Double>> probBest, List<Check> checks, DiagnosticsSummary diagnostics,
-                     Run run, Object priors, List<String> warnings, List<String> cautions) implements FitResult {
+                     Run run, PriorsUsed priors, List<String> warnings, List<String> cautions) implements FitResult {
 
     /** Shown with every result (DESIGN: cautions the tool shows). */
     public static final List<String> CAUTIONS = List.of(

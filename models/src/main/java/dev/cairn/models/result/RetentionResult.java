@@ -25,6 +25,6 @@ public record RetentionResult(String model, String title, boolean converged, Str
         implements FitResult {
 
     /** The retention priors are fixed and documented; the result names where. */
-    public record Priors(String documented) {
+    public record Priors(String documented) implements PriorsUsed {
     }
 }

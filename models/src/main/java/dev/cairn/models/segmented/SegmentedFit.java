@@ -103,7 +103,7 @@ public final class SegmentedFit {
                 new DataInfo(data.source(), spec.data().layout(), data.rows(), total, data.query()), overall,
                 comparisons, perSegment, probBest, List.of(), fitting.summary(),
                 fitting.run(method, model.layout.describe(own.parameterisation())),
-                Map.of("hyperpriors", "documented in SegmentedDensity: alpha0 ~ N(-3, 2^2); D, E ~ N(0, 1); "
+                new dev.cairn.models.result.PriorsUsed.Documented("documented in SegmentedDensity: alpha0 ~ N(-3, 2^2); D, E ~ N(0, 1); "
                         + "beta0 ~ N(0, 5^2); s0 ~ N(0, 1); tauAlpha, tauBeta ~ half-N(1); tauD, tauE, tauS ~ half-N(0.5)"),
                 fitting.warnings(warnings), Result.CAUTIONS);
         return new FitOutcome(result, draws);

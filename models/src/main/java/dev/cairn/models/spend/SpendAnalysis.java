@@ -104,35 +104,41 @@ public final class SpendAnalysis {
      * (Devroye 1986, Non-Uniform Random Variate Generation, chapter V), mapped through the lognormal
      * quantile function. The replicated mean is simulated payer by payer up to 20,000 payers and by the
      * central limit theorem above.
+     *
+     * @param draws       the fit's draws, with derived quantities
+     * @param data        the arms' data
+     * @param seed        the run's seed
+     * @param firstStream the first random stream the checks use (after the chains')
+     * @return the checks and the replicated statistics
      */
-    public static List<Check> checks(Draws draws, SpendData data, long seed, int firstStream) {
-        return checks(draws, data, seed, firstStream, null);
-    }
-
-    /**
-     * As {@link #checks(Draws, SpendData, long, int)}, keeping each replicated statistic under
-     * "arm/statistic". Arm k replicates with random stream {@code firstStream + k} of {@code seed}, so the
-     * arms run in parallel and the checks are the same on any number of threads.
-     */
-    public static List<Check> checks(Draws draws, SpendData data, long seed, int firstStream,
-                                     Map<String, double[]> replicatedOut) {
+    public static Checked checks(Draws draws, SpendData data, long seed, int firstStream) {
         if (!data.hasSpend()) {
-            return new ArrayList<>();
+            return new Checked(List.of(), Map.of());
         }
         List<Map<String, double[]>> kept = new ArrayList<>();
         for (int k = 0; k < data.arms().size(); k++) {
             kept.add(new LinkedHashMap<>());
         }
+        // arm k replicates with random stream firstStream + k of seed: the arms run in parallel and the checks
+        // are the same on any number of threads
         List<List<Check>> perArm = inParallel(data.arms().size(), k -> checks(draws, data, data.arms().get(k),
                 RandomStreams.forChain(seed, firstStream + k), kept.get(k)));
         List<Check> out = new ArrayList<>();
+        Map<String, double[]> replicated = new LinkedHashMap<>();
         for (int k = 0; k < perArm.size(); k++) {
             out.addAll(perArm.get(k));
-            if (replicatedOut != null) {
-                replicatedOut.putAll(kept.get(k));
-            }
+            replicated.putAll(kept.get(k));
         }
-        return out;
+        return new Checked(out, replicated);
+    }
+
+    /**
+     * The posterior predictive checks and, for the report's plots, each replicated statistic's draws.
+     *
+     * @param checks     per arm and statistic, the observed value and its posterior predictive p-value
+     * @param replicated the replicated statistic's draws under "arm/statistic"
+     */
+    public record Checked(List<Check> checks, Map<String, double[]> replicated) {
     }
 
     private static List<Check> checks(Draws draws, SpendData data, ArmStats a, UniformRandomProvider rng,

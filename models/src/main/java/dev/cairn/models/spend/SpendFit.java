@@ -57,8 +57,8 @@ public final class SpendFit {
         fitting.diagnose(draws);
 
         double level = fitting.level();
-        java.util.Map<String, double[]> replicated = new java.util.LinkedHashMap<>();
-        List<Check> checks = SpendAnalysis.checks(draws, data, s.seed(), s.chains(), replicated);
+        SpendAnalysis.Checked checked = SpendAnalysis.checks(draws, data, s.seed(), s.chains());
+        List<Check> checks = checked.checks();
         List<String> own = new ArrayList<>(data.warnings());
         own.addAll(SpendAnalysis.warnings(checks));
         List<String> warnings = fitting.warnings(own);
@@ -75,7 +75,7 @@ public final class SpendFit {
                 SpendAnalysis.probBest(draws, data),
                 checks, fitting.summary(), fitting.run(method, null),
                 priors, warnings, Result.CAUTIONS);
-        return new FitOutcome(result, draws, new dev.cairn.models.Figures(replicated, java.util.Map.of()));
+        return new FitOutcome(result, draws, new dev.cairn.models.Figures(checked.replicated(), java.util.Map.of()));
     }
 
     /** auto: exact for conjugate priors or conversion-only data, slice sampling otherwise. */

@@ -26,7 +26,7 @@ import dev.cairn.models.spec.PriorsSpec;
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record SpendPriors(Beta payerRate, NormalInverseGamma logSpend, Normal logSpendMean, HalfNormal logSpendSd,
-                          String source, String note) {
+                          String source, String note) implements dev.cairn.models.result.PriorsUsed {
 
     public static final Beta DEFAULT_PAYER_RATE = new Beta(1, 1);
     public static final NormalInverseGamma DEFAULT_LOG_SPEND = new NormalInverseGamma(0, 0.01, 1, 1);
