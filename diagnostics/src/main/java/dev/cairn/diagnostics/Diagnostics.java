@@ -127,6 +127,12 @@ public final class Diagnostics {
     /**
      * Diagnostics of several parameters (computed in parallel; the result does not depend on the
      * number of threads) with a verdict against {@code thresholds}.
+     *
+     * @param names      the parameters' names
+     * @param draws      per parameter, its draws as chains[m][n] (same order as names)
+     * @param thresholds the convergence thresholds of the verdict
+     * @return every parameter's diagnostics and the verdict
+     * @throws IllegalArgumentException when the lists differ in length or a parameter's chains are ragged
      */
     public static DiagnosticsReport of(List<String> names, List<double[][]> draws, Thresholds thresholds) {
         if (names.size() != draws.size()) {

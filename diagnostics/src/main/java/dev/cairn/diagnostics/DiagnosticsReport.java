@@ -19,6 +19,13 @@ public record DiagnosticsReport(List<ParameterDiagnostics> parameters, Threshold
         notes = List.copyOf(notes);
     }
 
+    /**
+     * The report of already diagnosed parameters: the worst R-hat and ESS over them and the verdict.
+     *
+     * @param parameters each parameter's diagnostics
+     * @param thresholds the convergence thresholds
+     * @return the report
+     */
     public static DiagnosticsReport of(List<ParameterDiagnostics> parameters, Thresholds thresholds) {
         double maxRhat = Double.NaN, minBulk = Double.NaN, minTail = Double.NaN;
         List<String> reasons = new ArrayList<>();

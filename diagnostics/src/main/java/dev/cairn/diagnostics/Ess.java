@@ -23,7 +23,12 @@ public final class Ess {
     private Ess() {
     }
 
-    /** ESS of draws laid out as chains[m][n]; NaN when undefined (fewer than 4 draws, or no variation). */
+    /**
+     * ESS of draws laid out as chains[m][n]; NaN when undefined (fewer than 4 draws, or no variation).
+     *
+     * @param chains the draws, m chains of n draws each
+     * @return the effective sample size of the mean
+     */
     public static double of(double[][] chains) {
         return of(Flat.of(chains));
     }

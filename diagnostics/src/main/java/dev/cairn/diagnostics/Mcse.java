@@ -14,6 +14,9 @@ public final class Mcse {
     /**
      * MCSE of the sd by the delta method: the variance is the mean of (x - mean)^2, whose MCSE is
      * sd((x - mean)^2) / sqrt(ESS of (x - mean)^2); the sd's MCSE is that divided by 2 sd.
+     *
+     * @param chains the draws, m chains of n draws each
+     * @return the Monte Carlo standard error of the posterior sd; NaN when undefined
      */
     public static double sd(double[][] chains) {
         Chains.check(chains);
@@ -38,6 +41,11 @@ public final class Mcse {
      * chains I(x <= q_p), the uncertainty of the cumulative probability at q_p is that of
      * Beta(S p + 1, S (1 - p) + 1); its +-1 sd quantiles are mapped back through the empirical quantile
      * function of all draws, and the MCSE is half the distance between the two. NaN when undefined.
+     *
+     * @param chains the draws, m chains of n draws each
+     * @param p      the probability, in (0, 1)
+     * @return the Monte Carlo standard error of the p-quantile
+     * @throws IllegalArgumentException when p is not in (0, 1)
      */
     public static double quantile(double[][] chains, double p) {
         if (!(p > 0 && p < 1)) {

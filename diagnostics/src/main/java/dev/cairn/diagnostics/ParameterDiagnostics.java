@@ -19,7 +19,7 @@ public record ParameterDiagnostics(
         double essBulk, double essTail, double essMean, double mcseMean,
         String note) {
 
-    /** Whether every diagnostic is defined (false for a constant parameter or too few draws). */
+    /** {@return whether every diagnostic is defined (false for a constant parameter or too few draws)} */
     public boolean defined() {
         return !Double.isNaN(rhat) && !Double.isNaN(essBulk) && !Double.isNaN(essTail);
     }

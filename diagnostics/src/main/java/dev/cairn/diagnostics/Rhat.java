@@ -12,6 +12,9 @@ public final class Rhat {
     /**
      * R-hat of the given chains as they are (no splitting or ranking). NaN when there is no variation at
      * all; +infinity when chains vary between but not within themselves (stuck chains).
+     *
+     * @param chains the draws, m chains of n draws each
+     * @return the potential scale reduction factor
      */
     public static double basic(double[][] chains) {
         return basic(Flat.of(chains));

@@ -19,7 +19,14 @@ public final class Sbc {
     private final Map<String, List<Integer>> ranks = new LinkedHashMap<>();
     private int maxRank = -1;
 
-    /** Number of posterior draws strictly below the prior draw: 0..L for L posterior draws. */
+    /**
+     * Number of posterior draws strictly below the prior draw: 0..L for L posterior draws.
+     *
+     * @param priorDraw      the parameter's value drawn from the prior (the data were simulated from it)
+     * @param posteriorDraws the posterior draws of the fit to those data
+     * @return the rank
+     * @throws IllegalArgumentException when the prior draw is not finite
+     */
     public static int rank(double priorDraw, double[] posteriorDraws) {
         if (!Double.isFinite(priorDraw)) {
             throw new IllegalArgumentException("prior draw must be finite, was " + priorDraw);
@@ -36,6 +43,11 @@ public final class Sbc {
     /**
      * Every k-th of the pooled draws so that {@code keep} remain, to reduce autocorrelation before ranking
      * (Talts et al. 2018, section 5.1).
+     *
+     * @param draws the pooled posterior draws
+     * @param keep  how many to keep, 1..draws.length
+     * @return the thinned draws
+     * @throws IllegalArgumentException when keep is out of range
      */
     public static double[] thin(double[] draws, int keep) {
         if (keep < 1 || keep > draws.length) {
@@ -49,7 +61,14 @@ public final class Sbc {
         return out;
     }
 
-    /** Records one replication's rank of {@code priorDraw} among {@code posteriorDraws} for a parameter. */
+    /**
+     * Records one replication's rank of {@code priorDraw} among {@code posteriorDraws} for a parameter.
+     *
+     * @param parameter      the parameter's name
+     * @param priorDraw      its value drawn from the prior
+     * @param posteriorDraws its posterior draws (the same number in every replication)
+     * @throws IllegalArgumentException when the number of posterior draws changes between replications
+     */
     public synchronized void add(String parameter, double priorDraw, double[] posteriorDraws) {
         if (maxRank >= 0 && posteriorDraws.length != maxRank) {
             throw new IllegalArgumentException("every replication needs " + maxRank + " posterior draws, was "
@@ -59,7 +78,12 @@ public final class Sbc {
         ranks.computeIfAbsent(parameter, k -> new ArrayList<>()).add(rank(priorDraw, posteriorDraws));
     }
 
-    /** One rank histogram per parameter, with {@code bins} equal bins over 0..L. */
+    /**
+     * One rank histogram per parameter, with {@code bins} equal bins over 0..L.
+     *
+     * @param bins the number of bins, >= 2
+     * @return per parameter, its histogram and chi-squared test of uniformity
+     */
     public synchronized Map<String, RankHistogram> histograms(int bins) {
         Map<String, RankHistogram> out = new LinkedHashMap<>();
         for (Map.Entry<String, List<Integer>> e : ranks.entrySet()) {
@@ -74,6 +98,16 @@ public final class Sbc {
      * (maxRank + 1) must be a multiple of the number of bins so that every bin is equally likely.
      */
     public record RankHistogram(long[] counts, double chiSquare, double pValue) {
+        /**
+         * A histogram of ranks in 0..maxRank with {@code bins} equal bins, and the chi-squared test of its
+         * uniformity (commons-math3).
+         *
+         * @param ranks   the ranks
+         * @param maxRank the largest possible rank (the number of posterior draws)
+         * @param bins    the number of bins, 2..maxRank + 1
+         * @return the histogram
+         * @throws IllegalArgumentException when bins is out of range
+         */
         public static RankHistogram of(int[] ranks, int maxRank, int bins) {
             if (bins < 2) {
                 throw new IllegalArgumentException("bins must be >= 2, was " + bins);
@@ -99,7 +133,12 @@ public final class Sbc {
             return new RankHistogram(counts, test.chiSquare(expected, counts), test.chiSquareTest(expected, counts));
         }
 
-        /** Whether uniformity is not rejected at level {@code alpha}. */
+        /**
+         * Whether uniformity is not rejected at level {@code alpha}.
+         *
+         * @param alpha the test's level, e.g. 0.001
+         * @return true when the p-value is at least alpha
+         */
         public boolean uniformAt(double alpha) {
             return pValue >= alpha;
         }

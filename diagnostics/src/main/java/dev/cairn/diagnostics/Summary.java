@@ -8,6 +8,14 @@ import org.apache.commons.math3.stat.descriptive.rank.Percentile;
  */
 public record Summary(double mean, double sd, double lo, double median, double hi, double level) {
 
+    /**
+     * Summary of pooled draws: mean, sd, median and the central interval of probability {@code level}.
+     *
+     * @param draws the draws
+     * @param level the interval's probability, in (0, 1)
+     * @return the summary
+     * @throws IllegalArgumentException when level is not in (0, 1) or there are no draws
+     */
     public static Summary of(double[] draws, double level) {
         if (!(level > 0 && level < 1)) {
             throw new IllegalArgumentException("interval level must be in (0, 1), was " + level);
@@ -25,6 +33,15 @@ public record Summary(double mean, double sd, double lo, double median, double h
                 quantiles.evaluate(50 * (1 + level)), level);
     }
 
+    /**
+     * Summary of draws laid out as chains, pooled.
+     *
+     * @param chains the draws, m chains of n draws each
+     * @param level  the interval's probability, in (0, 1)
+     * @return the summary of all chains' draws together
+     * @throws IllegalArgumentException when the chains are empty, ragged or hold a non-finite draw, or level
+     *                                  is not in (0, 1)
+     */
     public static Summary of(double[][] chains, double level) {
         Chains.check(chains);
         return of(Chains.pool(chains), level);

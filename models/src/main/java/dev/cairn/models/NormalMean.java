@@ -66,17 +66,17 @@ public final class NormalMean {
         return this;
     }
 
-    /** The posterior mean (NaN with a flat prior and no observation). */
+    /** {@return the posterior mean (NaN with a flat prior and no observation)} */
     public double mean() {
         return weighted / precision;
     }
 
-    /** The posterior variance (+infinity with a flat prior and no observation). */
+    /** {@return the posterior variance (+infinity with a flat prior and no observation)} */
     public double variance() {
         return 1 / precision;
     }
 
-    /** The posterior precision. */
+    /** {@return the posterior precision} */
     public double precision() {
         return precision;
     }

@@ -121,12 +121,12 @@ public final class OutputFolder implements AutoCloseable {
         return claim;
     }
 
-    /** Where this run writes its files until the commit. */
+    /** {@return where this run writes its files until the commit} */
     public Path folder() {
         return writing;
     }
 
-    /** The folder the files will be in after the commit. */
+    /** {@return the folder the files will be in after the commit} */
     public Path target() {
         return target;
     }

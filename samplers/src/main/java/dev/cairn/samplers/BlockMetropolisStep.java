@@ -30,11 +30,25 @@ public final class BlockMetropolisStep implements Step {
         this.initialScale = initialScale;
     }
 
-    /** A block of all coordinates with initial proposal sd {@code scale} per coordinate. */
+    /**
+     * A block of all coordinates with initial proposal sd {@code scale} per coordinate.
+     *
+     * @param scale the initial proposal sd, a finite number > 0
+     * @return the step
+     * @throws IllegalArgumentException naming the bad scale
+     */
     public static BlockMetropolisStep of(double scale) {
         return of(scale, null);
     }
 
+    /**
+     * A block of the given coordinates (all when null or empty) with initial proposal sd {@code scale}.
+     *
+     * @param scale       the initial proposal sd per coordinate, a finite number > 0
+     * @param coordinates the block's coordinates, or null for all
+     * @return the step
+     * @throws IllegalArgumentException naming the bad scale or coordinate
+     */
     public static BlockMetropolisStep of(double scale, int[] coordinates) {
         if (!(scale > 0) || Double.isInfinite(scale)) {
             throw new IllegalArgumentException("proposal scale must be a finite number > 0, was " + scale);
@@ -85,7 +99,7 @@ public final class BlockMetropolisStep implements Step {
             this.warmupBeforeCovariance = Math.max(100, 10 * d);
         }
 
-        /** The empirical covariance of the history this updater has adapted to. */
+        /** {@return the empirical covariance of the history this updater has adapted to} */
         public double[][] covariance() {
             double[][] c = new double[d][d];
             for (int i = 0; i < d; i++) {
@@ -96,11 +110,14 @@ public final class BlockMetropolisStep implements Step {
             return c;
         }
 
-        /** The current multiplier lambda of the proposal covariance. */
+        /** {@return the current multiplier lambda of the proposal covariance} */
         public double lambda() {
             return Math.exp(logLambda);
         }
 
+        /**
+         * {@return share of block proposals accepted so far (NaN before the first)}
+         */
         public double acceptanceRate() {
             return proposals == 0 ? Double.NaN : (double) accepted / proposals;
         }

@@ -6,10 +6,16 @@ import java.util.concurrent.atomic.AtomicBoolean;
 public final class Cancellation {
     private final AtomicBoolean cancelled = new AtomicBoolean();
 
+    /**
+     * Asks every chain that polls this to stop after its current iteration.
+     */
     public void cancel() {
         cancelled.set(true);
     }
 
+    /**
+     * {@return whether {@link #cancel} has been called}
+     */
     public boolean isCancelled() {
         return cancelled.get();
     }

@@ -21,6 +21,15 @@ public final class Chain {
     /**
      * Starts a chain. The initializer is asked again (up to 100 times) while its point has zero density,
      * so dispersed starts that fall outside the support are redrawn rather than fatal.
+     *
+     * @param target     the density
+     * @param sweep      the steps of one iteration
+     * @param init       the starting points
+     * @param chainIndex the chain's index, from 0
+     * @param rng        the chain's random stream (bound to every step's updater)
+     * @return the chain at its start
+     * @throws IllegalArgumentException when a start has the wrong length or a non-finite value
+     * @throws NoStartException when no start has a finite, positive density
      */
     public static Chain start(Target target, Sweep sweep, Initializer init, int chainIndex, UniformRandomProvider rng) {
         Parameters p = target.parameters();
@@ -43,18 +52,30 @@ public final class Chain {
         throw new NoStartException(chainIndex + 1, START_ATTEMPTS);
     }
 
-    /** One sweep of every step; {@code adapt} is true only in warmup. */
+    /**
+     * One sweep of every step.
+     *
+     * @param adapt true only in warmup: steps may tune themselves
+     */
     public void iterate(boolean adapt) {
         for (Step.Updater u : updaters) {
             u.update(state, adapt);
         }
     }
 
+    /**
+     * {@return the chain's current point and its log density}
+     */
     public ChainState state() {
         return state;
     }
 
-    /** The per-chain updater of the k-th step, to inspect its adapted tuning. */
+    /**
+     * The per-chain updater of the k-th step, to inspect its adapted tuning.
+     *
+     * @param k the step's position in the sweep
+     * @return its updater
+     */
     public Step.Updater updater(int k) {
         return updaters[k];
     }

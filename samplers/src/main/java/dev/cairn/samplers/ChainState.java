@@ -18,7 +18,14 @@ public final class ChainState {
         this.logDensity = evaluate(target, this.point);
     }
 
-    /** A state for {@code target} at the unconstrained point {@code start} (copied), its density evaluated. */
+    /**
+     * A state for {@code target} at the unconstrained point {@code start} (copied), its density evaluated.
+     *
+     * @param target the density
+     * @param start  the point, one value per coordinate
+     * @return the state
+     * @throws IllegalArgumentException when start has the wrong length
+     */
     public static ChainState of(Target target, double[] start) {
         if (start.length != target.parameters().size()) {
             throw new IllegalArgumentException("start has " + start.length + " values, target has "
@@ -27,11 +34,14 @@ public final class ChainState {
         return new ChainState(target, start);
     }
 
+    /**
+     * {@return the density this state follows}
+     */
     public Target target() {
         return target;
     }
 
-    /** The current point, live: steps change it in place and then call {@link #accept} or {@link #refresh}. */
+    /** {@return the current point, live: steps change it in place and then call {@link #accept} or {@link #refresh}} */
     public double[] point() {
         return point;
     }

@@ -44,7 +44,7 @@ public final class DrawsCsv {
             this.line = line;
         }
 
-        /** 1-based line of the problem (the header is line 1), 0 when not tied to one line. */
+        /** {@return 1-based line of the problem (the header is line 1), 0 when not tied to one line} */
         public long line() {
             return line;
         }
@@ -206,17 +206,17 @@ public final class DrawsCsv {
             }
         }
 
-        /** The parameter names, in column order. */
+        /** {@return the parameter names, in column order} */
         public List<String> names() {
             return names;
         }
 
-        /** Line of the row last read (1-based; the header is line 1). */
+        /** {@return line of the row last read (1-based; the header is line 1)} */
         public long line() {
             return line;
         }
 
-        /** 0-based index of the chain of the row last read, in order of first appearance. */
+        /** {@return 0-based index of the chain of the row last read, in order of first appearance} */
         public int chainIndex() {
             return chainIndex;
         }
@@ -258,12 +258,12 @@ public final class DrawsCsv {
             return true;
         }
 
-        /** Number of chains read. */
+        /** {@return number of chains read} */
         public int chains() {
             return chains.size();
         }
 
-        /** Rows per chain, once all rows are read: checks there are some and that every chain has as many. */
+        /** {@return rows per chain, once all rows are read: checks there are some and that every chain has as many} */
         public int drawsPerChain() {
             if (chains.isEmpty()) {
                 throw new FormatException(0, "no draws after the header");

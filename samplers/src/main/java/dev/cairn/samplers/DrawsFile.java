@@ -97,7 +97,7 @@ public final class DrawsFile implements AutoCloseable {
         return draws;
     }
 
-    /** Bytes one parameter's draws take in memory. */
+    /** {@return bytes one parameter's draws take in memory} */
     public long bytesPerColumn() {
         return 8L * chains * draws;
     }

@@ -27,7 +27,13 @@ public final class GibbsStep implements Step {
         this.perChain = perChain;
     }
 
-    /** A stateless conditional draw, shared by all chains. */
+    /**
+     * A stateless conditional draw, shared by all chains.
+     *
+     * @param draw writes a draw of its coordinates from their full conditional into the point
+     * @return the step
+     * @throws IllegalArgumentException when draw is null
+     */
     public static GibbsStep of(StreamDraw draw) {
         if (draw == null) {
             throw new IllegalArgumentException("conditional draw must not be null");
@@ -38,6 +44,10 @@ public final class GibbsStep implements Step {
     /**
      * A conditional draw with per-chain state, such as samplers bound to the chain's random stream:
      * {@code factory} makes one for each chain from the chain's stream.
+     *
+     * @param factory makes a chain's conditional draw from its random stream
+     * @return the step
+     * @throws IllegalArgumentException when factory is null
      */
     public static GibbsStep perChain(Function<UniformRandomProvider, ConditionalDraw> factory) {
         if (factory == null) {

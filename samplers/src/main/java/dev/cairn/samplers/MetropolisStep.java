@@ -25,11 +25,25 @@ public final class MetropolisStep implements Step {
         this.initialScale = initialScale;
     }
 
+    /**
+     * Metropolis updates of every coordinate, one at a time, with initial proposal sd {@code scale}.
+     *
+     * @param scale the initial proposal sd, a finite number > 0
+     * @return the step
+     * @throws IllegalArgumentException naming the bad scale
+     */
     public static MetropolisStep of(double scale) {
         return of(scale, null);
     }
 
-    /** Metropolis updates of the given coordinates (all when null or empty) with initial sd {@code scale}. */
+    /**
+     * Metropolis updates of the given coordinates (all when null or empty) with initial sd {@code scale}.
+     *
+     * @param scale       the initial proposal sd, a finite number > 0
+     * @param coordinates the coordinates, or null for all
+     * @return the step
+     * @throws IllegalArgumentException naming the bad scale or coordinate
+     */
     public static MetropolisStep of(double scale, int[] coordinates) {
         if (!(scale > 0) || Double.isInfinite(scale)) {
             throw new IllegalArgumentException("proposal scale must be a finite number > 0, was " + scale);
@@ -63,11 +77,17 @@ public final class MetropolisStep implements Step {
             this.acceptedInBatch = new int[coordinates.length];
         }
 
+        /**
+         * The current proposal sd of the k-th coordinate this updater moves.
+         *
+         * @param k the coordinate's position in the step's block
+         * @return the sd
+         */
         public double scale(int k) {
             return Math.exp(logScale[k]);
         }
 
-        /** Share of proposals accepted so far, all coordinates together. */
+        /** {@return share of proposals accepted so far, all coordinates together} */
         public double acceptanceRate() {
             return proposals == 0 ? Double.NaN : (double) accepted / proposals;
         }

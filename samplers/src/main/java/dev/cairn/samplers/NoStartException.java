@@ -16,7 +16,7 @@ public final class NoStartException extends IllegalStateException {
         this.chain = chain;
     }
 
-    /** The chain, 1-based. */
+    /** {@return the chain, 1-based} */
     public int chain() {
         return chain;
     }

@@ -102,27 +102,27 @@ public final class NutsUpdater implements Step.Updater {
         rhoExtended = new double[d];
     }
 
-    /** The current leapfrog step size. */
+    /** {@return the current leapfrog step size} */
     public double stepSize() {
         return stepSize;
     }
 
-    /** The current diagonal inverse metric (the estimated posterior variances), a copy. */
+    /** {@return the current diagonal inverse metric (the estimated posterior variances), a copy} */
     public double[] inverseMetric() {
         return ham.inverseMetric.clone();
     }
 
-    /** Transitions so far whose trajectory ended in a divergence. */
+    /** {@return transitions so far whose trajectory ended in a divergence} */
     public long divergences() {
         return divergences;
     }
 
-    /** Mean number of leapfrog steps per transition so far. */
+    /** {@return mean number of leapfrog steps per transition so far} */
     public double meanLeapfrogs() {
         return transitions == 0 ? 0 : (double) totalLeapfrogs / transitions;
     }
 
-    /** Tree depth of the last transition. */
+    /** {@return tree depth of the last transition} */
     public int lastDepth() {
         return lastDepth;
     }

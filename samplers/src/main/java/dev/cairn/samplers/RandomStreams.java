@@ -13,6 +13,14 @@ public final class RandomStreams {
     private RandomStreams() {
     }
 
+    /**
+     * Chain c's random stream: the run's generator advanced by c + 1 jumps of 2^128 steps.
+     *
+     * @param seed  the run's seed
+     * @param chain the chain's index, from 0
+     * @return the stream, the same for the same (seed, chain) on any thread
+     * @throws IllegalArgumentException when chain is negative
+     */
     public static UniformRandomProvider forChain(long seed, int chain) {
         if (chain < 0) {
             throw new IllegalArgumentException("chain index must be >= 0, was " + chain);

@@ -36,21 +36,44 @@ public record RunSettings(int chains, int warmup, int draws, int thin, long seed
         }
     }
 
-    /** Settings with thinning 1 and one thread per chain up to the number of processors. */
+    /**
+     * Settings with thinning 1 and one thread per chain up to the number of processors.
+     *
+     * @param chains chains, >= 1
+     * @param warmup warmup iterations per chain, >= 0
+     * @param draws  kept draws per chain, >= 1
+     * @param seed   the run's seed
+     * @return the settings
+     * @throws IllegalArgumentException naming the bad value
+     */
     public static RunSettings of(int chains, int warmup, int draws, long seed) {
         int threads = Math.max(1, Math.min(Math.max(chains, 1), Runtime.getRuntime().availableProcessors()));
         return new RunSettings(chains, warmup, draws, 1, seed, threads);
     }
 
+    /**
+     * The same settings on {@code n} threads (the draws do not depend on it).
+     *
+     * @param n threads, >= 1
+     * @return the settings
+     * @throws IllegalArgumentException when n < 1
+     */
     public RunSettings withThreads(int n) {
         return new RunSettings(chains, warmup, draws, thin, seed, n);
     }
 
+    /**
+     * The same settings keeping every k-th iteration after warmup.
+     *
+     * @param k the thinning interval, >= 1
+     * @return the settings
+     * @throws IllegalArgumentException when k < 1 or the iterations exceed the limit
+     */
     public RunSettings withThin(int k) {
         return new RunSettings(chains, warmup, draws, k, seed, threads);
     }
 
-    /** Iterations each chain runs: warmup plus draws x thin. */
+    /** {@return iterations each chain runs: warmup plus draws x thin} */
     public long iterationsPerChain() {
         return warmup + (long) draws * thin;
     }

@@ -22,6 +22,7 @@ public final class Slice {
      * @param logDensityAtX0 logDensity(x0), already known
      * @param width      the stepping-out width, > 0
      * @param maxSteps   the most steps out, in both directions together
+     * @param rng        the chain's random stream
      * @param out        receives {new value, its log density}
      */
     public static void sample(DoubleUnaryOperator logDensity, double x0, double logDensityAtX0, double width,
@@ -84,11 +85,23 @@ public final class Slice {
             this.jumps = new long[n];
         }
 
+        /**
+         * The current width of coordinate k.
+         *
+         * @param k the coordinate's position
+         * @return the width
+         */
         public double get(int k) {
             return width[k];
         }
 
-        /** Records a move of coordinate k during warmup (no effect when {@code adapt} is false). */
+        /**
+         * Records a move of coordinate k during warmup (no effect when {@code adapt} is false).
+         *
+         * @param k        the coordinate's position
+         * @param distance how far the update moved it
+         * @param adapt    whether the chain is in warmup
+         */
         public void record(int k, double distance, boolean adapt) {
             if (!adapt) {
                 return;

@@ -26,16 +26,38 @@ public final class SliceStep implements Step {
         this.maxStepsOut = maxStepsOut;
     }
 
-    /** Slice updates of every coordinate with initial width {@code width}. */
+    /**
+     * Slice updates of every coordinate with initial width {@code width}.
+     *
+     * @param width the initial width, a finite number > 0
+     * @return the step
+     * @throws IllegalArgumentException naming the bad width
+     */
     public static SliceStep of(double width) {
         return of(width, null);
     }
 
-    /** Slice updates of the given coordinates (all when null or empty). */
+    /**
+     * Slice updates of the given coordinates (all when null or empty), at most 64 steps out.
+     *
+     * @param width       the initial width, a finite number > 0
+     * @param coordinates the coordinates, or null for all
+     * @return the step
+     * @throws IllegalArgumentException naming the bad width or coordinate
+     */
     public static SliceStep of(double width, int[] coordinates) {
         return of(width, coordinates, 64);
     }
 
+    /**
+     * Slice updates of the given coordinates with a limit on stepping out.
+     *
+     * @param width       the initial width, a finite number > 0
+     * @param coordinates the coordinates, or null for all
+     * @param maxStepsOut the most steps out per update, >= 1
+     * @return the step
+     * @throws IllegalArgumentException naming the bad value
+     */
     public static SliceStep of(double width, int[] coordinates, int maxStepsOut) {
         if (!(width > 0) || Double.isInfinite(width)) {
             throw new IllegalArgumentException("slice width must be a finite number > 0, was " + width);
@@ -67,7 +89,12 @@ public final class SliceStep implements Step {
             this.widths = new Slice.Widths(coordinates.length, initialWidth);
         }
 
-        /** The current width of the k-th coordinate this updater moves. */
+        /**
+         * The current width of the k-th coordinate this updater moves.
+         *
+         * @param k the coordinate's position in the step's block
+         * @return the width
+         */
         public double width(int k) {
             return widths.get(k);
         }

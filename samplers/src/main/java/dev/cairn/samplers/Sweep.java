@@ -10,6 +10,13 @@ public final class Sweep {
         this.steps = steps;
     }
 
+    /**
+     * The steps of one iteration, run in this order.
+     *
+     * @param steps one or more steps
+     * @return the sweep
+     * @throws IllegalArgumentException when there is no step or a step is null
+     */
     public static Sweep of(Step... steps) {
         if (steps == null || steps.length == 0) {
             throw new IllegalArgumentException("a sweep needs at least one step");
@@ -22,6 +29,9 @@ public final class Sweep {
         return new Sweep(List.of(steps));
     }
 
+    /**
+     * {@return the steps, in order (unmodifiable)}
+     */
     public List<Step> steps() {
         return steps;
     }

@@ -36,13 +36,28 @@ public enum Transform {
         @Override boolean admits(double x) { return x > 0 && x < 1; }
     };
 
-    /** The constrained value of an unconstrained coordinate. */
+    /**
+     * The constrained value of an unconstrained coordinate.
+     *
+     * @param u the unconstrained coordinate
+     * @return the value on the parameter's own scale
+     */
     public abstract double constrain(double u);
 
-    /** The unconstrained coordinate of a constrained value. */
+    /**
+     * The unconstrained coordinate of a constrained value.
+     *
+     * @param x a value inside the parameter's support
+     * @return the unconstrained coordinate
+     */
     public abstract double unconstrain(double x);
 
-    /** log |d constrain(u) / du|. */
+    /**
+     * log |d constrain(u) / du|, which a density on the constrained scale adds on the unconstrained one.
+     *
+     * @param u the unconstrained coordinate
+     * @return the log Jacobian
+     */
     public abstract double logJacobian(double u);
 
     /** Whether x lies strictly inside this transform's range. */

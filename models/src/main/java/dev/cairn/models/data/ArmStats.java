@@ -18,12 +18,12 @@ public record ArmStats(String arm, long users, long payers, double logSpendSum, 
         return new ArmStats(arm, users, payers, s1, s2, nan, nan, nan, nan, nan);
     }
 
-    /** Mean log spend of payers, S1 / m. */
+    /** {@return mean log spend of payers, S1 / m} */
     public double meanLogSpend() {
         return logSpendSum / payers;
     }
 
-    /** Sum of squared deviations of payers' log spend from their mean, S2 - S1^2 / m (never negative). */
+    /** {@return sum of squared deviations of payers' log spend from their mean, S2 - S1^2 / m (never negative)} */
     public double logSpendSquaredDeviations() {
         return payers == 0 ? 0 : Math.max(0, logSpendSqSum - logSpendSum * logSpendSum / payers);
     }

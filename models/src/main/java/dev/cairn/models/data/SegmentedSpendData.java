@@ -39,7 +39,7 @@ public record SegmentedSpendData(List<Cell> cells, boolean hasSpend, String sour
         return null;
     }
 
-    /** Statistics summed over segments, per arm (for the overall counts). */
+    /** {@return statistics summed over segments, per arm (for the overall counts)} */
     public Map<String, long[]> armTotals() {
         Map<String, long[]> out = new LinkedHashMap<>();
         for (String a : arms()) {

@@ -27,7 +27,7 @@ public final class Demo {
     public record Fitted(String spec, Path folder, FitOutcome outcome) {
     }
 
-    /** The example spec names, in the order the demo fits them. */
+    /** {@return the example spec names, in the order the demo fits them} */
     public static List<String> examples() {
         return resource("index.txt").lines().map(String::strip).filter(s -> !s.isEmpty()).toList();
     }

@@ -19,7 +19,7 @@ public record NormalInverseGamma(double mu0, double kappa0, double alpha0, doubl
         Prior.positive("normal-inverse-gamma", "beta0", beta0);
     }
 
-    /** The family's name as the spec writes it. */
+    /** {@return the family's name as the spec writes it} */
     public String family() {
         return "normal-inverse-gamma";
     }

@@ -15,7 +15,7 @@ public record Ltv(int horizon, @JsonIgnore Map<String, Interval> arms) {
         arms = java.util.Collections.unmodifiableMap(new java.util.LinkedHashMap<>(arms));
     }
 
-    /** The arms' intervals beside the horizon, as the contract writes them. */
+    /** {@return the arms' intervals beside the horizon, as the contract writes them} */
     @JsonAnyGetter
     public Map<String, Interval> byArm() {
         return arms;

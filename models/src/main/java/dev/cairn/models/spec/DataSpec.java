@@ -48,7 +48,7 @@ public record DataSpec(String path, String layout, Map<String, String> columns, 
         return columns != null && columns.containsKey(logical);
     }
 
-    /** Whether a blank spend cell is read as 0 ({@code data.missingSpend: "zero"}). */
+    /** {@return whether a blank spend cell is read as 0 ({@code data.missingSpend: "zero"})} */
     public boolean blankSpendIsZero() {
         return "zero".equals(missingSpend);
     }

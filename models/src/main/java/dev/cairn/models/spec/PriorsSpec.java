@@ -27,7 +27,7 @@ public record PriorsSpec(BetaPrior payerRate, NigPrior logSpend, NormalPrior log
     public record TauPrior(String family, Double lower, Double upper, Double sd, Double scale) {
     }
 
-    /** Whether any spend-model prior is given. */
+    /** {@return whether any spend-model prior is given} */
     public boolean anySpend() {
         return payerRate != null || logSpend != null || logSpendMean != null || logSpendSd != null || fromHistory != null;
     }
