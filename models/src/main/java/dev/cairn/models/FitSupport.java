@@ -19,6 +19,11 @@ public final class FitSupport {
     /**
      * Run settings from the spec; threads from the options, else the spec, else one per chain up to the
      * processors. Exact sampling has no warmup and no thinning.
+     *
+     * @param spec    the spec (its sampler block)
+     * @param options the caller's options (threads)
+     * @param exact   whether the draws are exact
+     * @return the settings
      */
     public static RunSettings runSettings(Spec spec, FitOptions options, boolean exact) {
         SamplerSpec s = spec.samplerOrDefault();
@@ -28,6 +33,12 @@ public final class FitSupport {
         return new RunSettings(s.chains(), exact ? 0 : s.warmup(), s.draws(), exact ? 1 : s.thin(), s.seed(), threads);
     }
 
+    /**
+     * The convergence thresholds of a spec's {@code convergence} block, defaults where it gives none.
+     *
+     * @param c the block, or null
+     * @return the thresholds
+     */
     public static Thresholds thresholds(ConvergenceSpec c) {
         if (c == null) {
             return Thresholds.DEFAULT;
@@ -36,7 +47,13 @@ public final class FitSupport {
                 c.minEssPerChain() == null ? Thresholds.DEFAULT.minEssPerChain() : c.minEssPerChain());
     }
 
-    /** Diagnostics of every column of the draws (parameters and derived quantities). */
+    /**
+     * Diagnostics of every column of the draws (parameters and derived quantities).
+     *
+     * @param draws the draws
+     * @param spec  the spec (its convergence thresholds)
+     * @return the report with the verdict
+     */
     public static DiagnosticsReport diagnose(Draws draws, Spec spec) {
         // columns copied one at a time as the diagnostics reach them, not all at once
         List<double[][]> columns = new java.util.AbstractList<>() {
@@ -56,6 +73,12 @@ public final class FitSupport {
     /**
      * The control arm: the spec's, or the first in sorted order; at least two arms are needed. Used by
      * every model that compares arms.
+     *
+     * @param spec   the spec (its control)
+     * @param arms   the arms in the data, sorted
+     * @param source the data's name, for the message
+     * @return the control arm
+     * @throws InputException when there are fewer than two arms or the spec's control is not among them
      */
     public static String control(Spec spec, List<String> arms, String source) {
         if (arms.size() < 2) {
@@ -122,6 +145,12 @@ public final class FitSupport {
         }
     }
 
+    /**
+     * The warning put first in a result that did not converge: the reasons and what to try.
+     *
+     * @param report the diagnostics
+     * @return one line
+     */
     public static String notConverged(DiagnosticsReport report) {
         return "NOT converged: " + String.join("; ", report.reasons())
                 + ". Do not use these numbers for decisions; run longer or change the sampler.";

@@ -37,7 +37,10 @@ public final class Limits {
      *
      * @param source what the names were read from, for the message
      * @param kind   "arm", "segment", "cohort" or "estimate"
+     * @param names  the distinct names read
+     * @param limit  the most that cairn fits
      * @param column the column they came from (null for none), for the hint
+     * @throws InputException naming the count or the long name
      */
     public static void names(String source, String kind, Collection<String> names, int limit, String column) {
         if (names.size() > limit) {

@@ -28,6 +28,12 @@ public final class ResultWriter {
     private ResultWriter() {
     }
 
+    /**
+     * The result as the JSON of result.json (stable key order, a final newline).
+     *
+     * @param result a model's result
+     * @return the text
+     */
     public static String json(FitResult result) {
         try {
             return MAPPER.writeValueAsString(result) + "\n";
@@ -36,6 +42,13 @@ public final class ResultWriter {
         }
     }
 
+    /**
+     * Writes result.json and draws.csv into {@code dir}, each atomically.
+     *
+     * @param outcome the fit's result and draws
+     * @param dir     the folder (created when missing)
+     * @throws java.io.UncheckedIOException when a file cannot be written
+     */
     public static void write(FitOutcome outcome, Path dir) {
         try {
             Files.createDirectories(dir);
@@ -46,7 +59,13 @@ public final class ResultWriter {
         }
     }
 
-    /** Writes text through the given action into a temporary sibling, then renames it onto {@code target}. */
+    /**
+     * Writes text through the given action into a temporary sibling, then renames it onto {@code target}.
+     *
+     * @param target the file written
+     * @param action writes the text
+     * @throws IOException when writing or renaming fails (the temporary file is removed)
+     */
     public static void atomically(Path target, TextAction action) throws IOException {
         // A sibling with a random suffix, created with the default permissions (not the owner-only ones of a
         // temporary file), so the renamed file reads like any other the user writes.

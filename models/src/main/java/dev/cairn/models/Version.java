@@ -12,6 +12,9 @@ public final class Version {
 
     private static final String VERSION = read();
 
+    /**
+     * {@return cairn's version, from the build}
+     */
     public static String get() {
         return VERSION;
     }

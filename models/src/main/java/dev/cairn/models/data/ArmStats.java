@@ -8,11 +8,29 @@ package dev.cairn.models.data;
 public record ArmStats(String arm, long users, long payers, double logSpendSum, double logSpendSqSum,
                        double spendSum, double payerP50, double payerP90, double payerP99, double spendMax) {
 
+    /**
+     * Statistics of an arm with conversions only (no spend).
+     *
+     * @param arm    the arm's name
+     * @param users  users
+     * @param payers users who paid
+     * @return the statistics
+     */
     public static ArmStats conversions(String arm, long users, long payers) {
         double nan = Double.NaN;
         return new ArmStats(arm, users, payers, nan, nan, nan, nan, nan, nan, nan);
     }
 
+    /**
+     * Statistics of an arm from a summary row: counts and the payers' log-spend sums.
+     *
+     * @param arm    the arm's name
+     * @param users  users
+     * @param payers users who paid
+     * @param s1     sum of the payers' log spend
+     * @param s2     sum of the payers' squared log spend
+     * @return the statistics
+     */
     public static ArmStats summary(String arm, long users, long payers, double s1, double s2) {
         double nan = Double.NaN;
         return new ArmStats(arm, users, payers, s1, s2, nan, nan, nan, nan, nan);

@@ -27,21 +27,49 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
     /** The arm used when the data have no arm column. */
     public static final String SINGLE_ARM = "all";
 
-    /** Installs of cohort c in arm k (0 when that cohort has no users in the arm). */
+    /**
+     * Installs of cohort c in arm k (0 when that cohort has no users in the arm).
+     *
+     * @param c the cohort's index, in time order
+     * @param k the arm's index
+     * @return the installs
+     */
     public long installs(int c, int k) {
         return installs[c][k];
     }
 
-    /** Observed day -> active count for cohort c, arm k (empty when not observed), in day order. */
+    /**
+     * Observed day -> active count for cohort c, arm k (empty when not observed), in day order.
+     *
+     * @param c the cohort's index
+     * @param k the arm's index
+     * @return the observations
+     */
     public Map<Integer, Long> observed(int c, int k) {
         return active.get(c).get(k);
     }
 
+    /**
+     * The last day observed for cohort c in arm k: the cohort's age at the cut-off.
+     *
+     * @param c the cohort's index
+     * @param k the arm's index
+     * @return the day, 0 when none is observed
+     */
     public int lastObservedDay(int c, int k) {
         Map<Integer, Long> m = observed(c, k);
         return m.isEmpty() ? 0 : ((TreeMap<Integer, Long>) m).lastKey();
     }
 
+    /**
+     * Reads a cohort-days table (a file or inline rows); bad rows are refused with their place.
+     *
+     * @param data     the spec's data part
+     * @param baseDir  the folder relative paths resolve against
+     * @param survival whether the counts are still-retained (they must not rise with the day)
+     * @return the cohorts, arms and observations
+     * @throws InputException one line naming the file, row or column
+     */
     public static CohortDays read(DataSpec data, Path baseDir, boolean survival) {
         DataFile file = data.rows() != null ? null : DataFile.of(data.path(), baseDir, "data.path");
         return DataFile.whole(() -> read(data, file, survival), file);

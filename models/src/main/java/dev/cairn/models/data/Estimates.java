@@ -13,11 +13,21 @@ public record Estimates(List<String> names, double[] estimate, double[] se, Stri
         se = se.clone();
     }
 
+    /**
+     * {@return the number of estimates}
+     */
     public int size() {
         return names.size();
     }
 
-    /** Read with DuckDB from a CSV or Parquet file or inline rows; bad rows are refused with their place. */
+    /**
+     * Read with DuckDB from a CSV or Parquet file or inline rows; bad rows are refused with their place.
+     *
+     * @param data    the spec's data part
+     * @param baseDir the folder relative paths resolve against
+     * @return the estimates and their standard errors
+     * @throws InputException one line naming the file, row or column
+     */
     public static Estimates read(dev.cairn.models.spec.DataSpec data, java.nio.file.Path baseDir) {
         return EstimatesReader.read(data, baseDir);
     }

@@ -21,15 +21,27 @@ public record SegmentedSpendData(List<Cell> cells, boolean hasSpend, String sour
         warnings = List.copyOf(warnings);
     }
 
+    /**
+     * {@return the segments, sorted}
+     */
     public List<String> segments() {
         return new ArrayList<>(new TreeSet<>(cells.stream().map(Cell::segment).toList()));
     }
 
+    /**
+     * {@return the arms, sorted}
+     */
     public List<String> arms() {
         return new ArrayList<>(new TreeSet<>(cells.stream().map(c -> c.stats().arm()).toList()));
     }
 
-    /** The cell's statistics, or null when the segment has no users in that arm. */
+    /**
+     * The cell's statistics, or null when the segment has no users in that arm.
+     *
+     * @param segment the segment
+     * @param arm     the arm
+     * @return the statistics, or null
+     */
     public ArmStats cell(String segment, String arm) {
         for (Cell c : cells) {
             if (c.segment().equals(segment) && c.stats().arm().equals(arm)) {

@@ -19,10 +19,20 @@ public record SpendData(List<ArmStats> arms, boolean hasSpend, String source, lo
         warnings = List.copyOf(warnings);
     }
 
+    /**
+     * {@return the arms' names, in the data's sorted order}
+     */
     public List<String> armNames() {
         return arms.stream().map(ArmStats::arm).toList();
     }
 
+    /**
+     * The statistics of one arm.
+     *
+     * @param name the arm
+     * @return its statistics
+     * @throws IllegalArgumentException when there is no such arm
+     */
     public ArmStats arm(String name) {
         for (ArmStats a : arms) {
             if (a.arm().equals(name)) {
@@ -32,6 +42,9 @@ public record SpendData(List<ArmStats> arms, boolean hasSpend, String source, lo
         throw new IllegalArgumentException("no arm '" + name + "'");
     }
 
+    /**
+     * {@return whether the arms carry observed spend sums (a users or summary table with spend), which the predictive checks need}
+     */
     public boolean hasObservedSpendStatistics() {
         return hasSpend && !arms.isEmpty() && !Double.isNaN(arms.get(0).spendSum());
     }

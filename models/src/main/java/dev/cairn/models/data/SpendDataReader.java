@@ -38,6 +38,8 @@ public final class SpendDataReader {
      * @param data    the spec's data part
      * @param baseDir folder that relative paths are resolved against (the spec's folder)
      * @param strict  whether warnings (duplicate user ids) are errors
+     * @return the per-arm statistics
+     * @throws InputException one line naming the file, row or column
      */
     public static SpendData read(DataSpec data, Path baseDir, boolean strict) {
         Cells c = cells(data, baseDir, strict, false);
@@ -46,7 +48,15 @@ public final class SpendDataReader {
         return new SpendData(c.stats, c.hasSpend, c.source, c.rows, c.warnings, c.query);
     }
 
-    /** Statistics per (segment, arm) cell, for the segmented model: {@code data.columns.segment} names the column. */
+    /**
+     * Statistics per (segment, arm) cell, for the segmented model: {@code data.columns.segment} names the column.
+     *
+     * @param data    the spec's data part
+     * @param baseDir the folder relative paths resolve against
+     * @param strict  whether warnings are errors
+     * @return the cells' statistics
+     * @throws InputException one line naming the file, row or column
+     */
     public static SegmentedSpendData readSegmented(DataSpec data, Path baseDir, boolean strict) {
         Cells c = cells(data, baseDir, strict, true);
         Limits.names(c.source, "arm", new java.util.TreeSet<>(c.stats.stream().map(ArmStats::arm).toList()), Limits.ARMS,

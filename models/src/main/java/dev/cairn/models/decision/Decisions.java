@@ -19,7 +19,15 @@ public final class Decisions {
 
     /**
      * One arm against the control, draw by draw. The lift is left out (null) when the control's value is 0 in
-     * some draw — no retention at all, say — since a ratio to 0 has no value; the rest stays.
+     * some draw (no retention at all, say), since a ratio to 0 has no value; the rest stays.
+     *
+     * @param arm     the arm
+     * @param control the control arm
+     * @param metric  the metric's key
+     * @param x       the arm's draws of the metric
+     * @param c       the control's draws, paired with x
+     * @param level   the intervals' probability
+     * @return the comparison: lift, difference, P(arm above control), expected loss
      */
     public static Comparison compare(String arm, String control, String metric, double[] x, double[] c, double level) {
         double[] lift = new double[x.length];
@@ -53,7 +61,13 @@ public final class Decisions {
         return lift;
     }
 
-    /** P(best) over the arms, given each arm's draws of one metric (all of the same length). */
+    /**
+     * P(best) over the arms, given each arm's draws of one metric (all of the same length).
+     *
+     * @param arms    the arms
+     * @param drawsOf an arm's draws
+     * @return per arm, the share of draws in which it has the highest value
+     */
     public static Map<String, Double> probBest(List<String> arms, java.util.function.Function<String, double[]> drawsOf) {
         double[][] values = new double[arms.size()][];
         for (int k = 0; k < arms.size(); k++) {
@@ -77,7 +91,16 @@ public final class Decisions {
         return m;
     }
 
-    /** Every non-control arm against the control on each metric, reading draws through {@code drawsOf(metric, arm)}. */
+    /**
+     * Every non-control arm against the control on each metric, reading draws through {@code drawsOf(metric, arm)}.
+     *
+     * @param arms    the arms
+     * @param control the control arm
+     * @param metrics the metrics' keys
+     * @param drawsOf the draws of a metric for an arm
+     * @param level   the intervals' probability
+     * @return the comparisons, metric by metric, arm by arm
+     */
     public static List<Comparison> compareAll(List<String> arms, String control, List<String> metrics,
                                               java.util.function.BiFunction<String, String, double[]> drawsOf,
                                               double level) {

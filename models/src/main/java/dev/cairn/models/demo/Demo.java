@@ -32,11 +32,24 @@ public final class Demo {
         return resource("index.txt").lines().map(String::strip).filter(s -> !s.isEmpty()).toList();
     }
 
+    /**
+     * The text of a bundled example spec.
+     *
+     * @param name the example's name (without .json)
+     * @return the spec's JSON text
+     */
     public static String exampleText(String name) {
         return resource(name);
     }
 
-    /** Writes data and specs into {@code dir}, then fits every example; {@code each} sees each fit as it ends. */
+    /**
+     * Writes data and specs into {@code dir}, then fits every example; {@code each} sees each fit as it ends.
+     *
+     * @param dir     the folder to write into (created)
+     * @param options the fits' options
+     * @param each    called with each fit as it ends
+     * @return every fit, in the order the demo fits them
+     */
     public static List<Fitted> run(Path dir, FitOptions options, java.util.function.Consumer<Fitted> each) {
         DemoScenario.writeUsers(dir);
         RetentionScenario.write(dir);

@@ -35,6 +35,9 @@ public final class DemoScenario {
 
     /** One arm's true parameters. */
     public record Arm(String name, double payerRate, double logSpendMean, double logSpendSd) {
+        /**
+         * {@return the arm's true ARPU: payer rate x exp(mu + sigma^2 / 2)}
+         */
         public double trueArpu() {
             return payerRate * Math.exp(logSpendMean + logSpendSd * logSpendSd / 2);
         }
@@ -53,7 +56,12 @@ public final class DemoScenario {
     private DemoScenario() {
     }
 
-    /** Writes the per-user CSV (user_id, store_variant, region, spend_d7) into {@code dir}. */
+    /**
+     * Writes the per-user CSV (user_id, store_variant, region, spend_d7) into {@code dir}.
+     *
+     * @param dir the folder
+     * @return the file written
+     */
     public static Path writeUsers(Path dir) {
         Path file = dir.resolve(USERS_FILE);
         UniformRandomProvider rng = RandomStreams.forChain(SEED, 0);

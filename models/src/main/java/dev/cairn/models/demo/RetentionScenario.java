@@ -38,10 +38,22 @@ public final class RetentionScenario {
     private RetentionScenario() {
     }
 
+    /**
+     * The true day-7 logit level of a cohort (before the arm's offset).
+     *
+     * @param cohort the cohort's index, from 0
+     * @return the level
+     */
     public static double trueLevel(int cohort) {
         return 0.20 + 0.03 * cohort;
     }
 
+    /**
+     * Writes the demo's cohort-days CSV into {@code dir}.
+     *
+     * @param dir the folder
+     * @return the file written
+     */
     public static Path write(Path dir) {
         Path file = dir.resolve(FILE);
         UniformRandomProvider rng = RandomStreams.forChain(DemoScenario.SEED, 2);

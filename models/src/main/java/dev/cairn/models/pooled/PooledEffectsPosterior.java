@@ -68,6 +68,12 @@ public final class PooledEffectsPosterior {
         this.hierarchy = KnownVarianceHierarchy.of(y, s2, Double.isFinite(v0) ? priors.muMean() : 0, v0);
     }
 
+    /**
+     * The draw column of an estimate's pooled effect.
+     *
+     * @param name the estimate's name
+     * @return the column name, {@code effect[name]}
+     */
     public static String effect(String name) {
         return "effect[" + name + "]";
     }
@@ -80,6 +86,17 @@ public final class PooledEffectsPosterior {
         return b.build();
     }
 
+    /**
+     * Draws of the pooled-effects posterior: tau slice-sampled from its marginal, then mu, every effect and a
+     * new effect drawn exactly.
+     *
+     * @param data         the estimates
+     * @param priors       the mu and tau priors
+     * @param settings     chains, warmup, draws, seed, threads
+     * @param progress     receives each chain's progress
+     * @param cancellation stops the chains when cancelled
+     * @return the draws of tau, mu, the effects and the predictive effect
+     */
     public static Draws sample(Estimates data, PooledPriors priors, RunSettings settings, Progress progress,
                                Cancellation cancellation) {
         PooledEffectsPosterior model = new PooledEffectsPosterior(data, priors);

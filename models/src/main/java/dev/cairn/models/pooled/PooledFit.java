@@ -23,6 +23,15 @@ public final class PooledFit {
     private PooledFit() {
     }
 
+    /**
+     * Fits a pooled-effects spec.
+     *
+     * @param spec    the validated spec
+     * @param baseDir the folder relative data paths resolve against
+     * @param options threads, progress, cancellation
+     * @return the result and draws
+     * @throws InputException for bad data or sampler.method 'exact'
+     */
     public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
         Fitting fitting = Fitting.start(spec, options);
         Estimates data = Estimates.read(spec.data(), baseDir);

@@ -24,6 +24,15 @@ import dev.cairn.models.spec.PriorsSpec;
 public record PooledPriors(String muFamily, Double muMean, Double muSd, String tauFamily, Double tauLower,
                            Double tauUpper, Double tauScale, String source) implements dev.cairn.models.result.PriorsUsed {
 
+    /**
+     * The mu and tau priors of a spec, defaults where it gives none (tau's half-Cauchy scale is the largest
+     * standard error).
+     *
+     * @param p    the spec's priors
+     * @param data the estimates (for the default tau scale)
+     * @return the priors
+     * @throws InputException naming a bad prior parameter
+     */
     public static PooledPriors of(PriorsSpec p, Estimates data) {
         String muFamily = "flat";
         Double muMean = null, muSd = null;

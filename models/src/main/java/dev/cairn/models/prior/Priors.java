@@ -11,32 +11,70 @@ public final class Priors {
     private Priors() {
     }
 
-    /** The payer-rate prior, {@code /priors/payerRate}. */
+    /**
+     * The payer-rate prior, {@code /priors/payerRate}.
+     *
+     * @param p the spec's block
+     * @return the Beta prior
+     * @throws dev.cairn.models.InputException naming the field and the bad value
+     */
     public static Beta of(PriorsSpec.BetaPrior p) {
         return checked("/priors/payerRate", () -> new Beta(p.a(), p.b()));
     }
 
-    /** The conjugate log-spend prior, {@code /priors/logSpend}. */
+    /**
+     * The conjugate log-spend prior, {@code /priors/logSpend}.
+     *
+     * @param p the spec's block
+     * @return the normal-inverse-gamma prior
+     * @throws dev.cairn.models.InputException naming the field and the bad value
+     */
     public static NormalInverseGamma of(PriorsSpec.NigPrior p) {
         return checked("/priors/logSpend", () -> new NormalInverseGamma(p.mu0(), p.kappa0(), p.alpha0(), p.beta0()));
     }
 
-    /** A normal prior at {@code field}. */
+    /**
+     * A normal prior at {@code field}.
+     *
+     * @param p     the spec's block
+     * @param field the block's path, for the message
+     * @return the prior
+     * @throws dev.cairn.models.InputException naming the field and the bad value
+     */
     public static Normal of(PriorsSpec.NormalPrior p, String field) {
         return checked(field, () -> new Normal(p.mean(), p.sd()));
     }
 
-    /** A half-normal prior at {@code field}. */
+    /**
+     * A half-normal prior at {@code field}.
+     *
+     * @param p     the spec's block
+     * @param field the block's path, for the message
+     * @return the prior
+     * @throws dev.cairn.models.InputException naming the field and the bad value
+     */
     public static HalfNormal of(PriorsSpec.HalfNormalPrior p, String field) {
         return checked(field, () -> new HalfNormal(p.sd()));
     }
 
-    /** pooled-effects' mu, {@code /priors/mu}: {@code normal} or {@code flat}. */
+    /**
+     * pooled-effects' mu, {@code /priors/mu}: {@code normal} or {@code flat}.
+     *
+     * @param p the spec's block
+     * @return the prior
+     * @throws dev.cairn.models.InputException naming the field and the bad value
+     */
     public static Prior of(PriorsSpec.MuPrior p) {
         return checked("/priors/mu", () -> "normal".equals(p.family()) ? new Normal(p.mean(), p.sd()) : new Flat());
     }
 
-    /** pooled-effects' tau, {@code /priors/tau}: {@code uniform}, {@code half-normal} or {@code half-cauchy}. */
+    /**
+     * pooled-effects' tau, {@code /priors/tau}: {@code uniform}, {@code half-normal} or {@code half-cauchy}.
+     *
+     * @param p the spec's block
+     * @return the prior
+     * @throws dev.cairn.models.InputException naming the field and the bad value
+     */
     public static Prior of(PriorsSpec.TauPrior p) {
         return checked("/priors/tau", () -> switch (p.family()) {
             case "uniform" -> new Uniform(p.lower(), p.upper());

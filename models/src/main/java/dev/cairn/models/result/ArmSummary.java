@@ -6,7 +6,12 @@ import com.fasterxml.jackson.annotation.JsonInclude;
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record ArmSummary(long users, long payers, Interval arpu, Interval payerRate, Interval arppu) {
 
-    /** The interval of a spend metric; null for one these data do not give. */
+    /**
+     * The interval of a spend metric; null for one these data do not give.
+     *
+     * @param metric ARPU, payer rate or ARPPU
+     * @return the interval, or null
+     */
     public Interval of(Metric metric) {
         if (metric.equals(Metric.ARPU)) {
             return arpu;

@@ -25,7 +25,12 @@ public record CohortRow(String cohort, String arm, long installs, int lastObserv
         projected = List.copyOf(projected);
     }
 
-    /** The interval of day {@code key} ("d7"), or null when the spec did not ask for that day. */
+    /**
+     * The interval of day {@code key} ("d7"), or null when the spec did not ask for that day.
+     *
+     * @param key the day's key
+     * @return the interval, or null
+     */
     public Interval day(String key) {
         return days.get(key);
     }

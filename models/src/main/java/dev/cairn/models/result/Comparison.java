@@ -22,6 +22,13 @@ public record Comparison(String arm, String control, String metric, Interval lif
         this(arm, control, metric, lift, difference, probAbove, expectedLoss, null, null);
     }
 
+    /**
+     * The same comparison marked with its scope and the raw lift from the segment's own data.
+     *
+     * @param s   "population", "typical-segment", or null for a segment's own
+     * @param raw the lift from the segment's data alone, or null
+     * @return the comparison
+     */
     public Comparison withScope(String s, Double raw) {
         return new Comparison(arm, control, metric, lift, difference, probAbove, expectedLoss, s, raw);
     }

@@ -14,6 +14,12 @@ public record DiagnosticsSummary(Double maxRhat, Double minEssBulk, Double minEs
     public record Parameter(String name, Double rhat, Double essBulk, Double essTail, Double mcseMean) {
     }
 
+    /**
+     * The result's diagnostics block from a report: thresholds, worst values, reasons and every parameter's line.
+     *
+     * @param r the report
+     * @return the block
+     */
     public static DiagnosticsSummary of(DiagnosticsReport r) {
         List<Parameter> ps = r.parameters().stream()
                 .map(p -> new Parameter(p.name(), finite(p.rhat()), finite(p.essBulk()), finite(p.essTail()),

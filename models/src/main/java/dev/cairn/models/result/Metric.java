@@ -30,17 +30,32 @@ public record Metric(String key, String label, Unit unit) {
     public static final Metric ARPPU = new Metric("arppu", "ARPPU", Unit.CURRENCY_PER_PAYER);
     public static final Metric LTV = new Metric("ltv", "LTV", Unit.CURRENCY_PER_INSTALL);
 
-    /** The spend models' metrics, primary first; conversion-only data have {@link #PAYER_RATE} alone. */
+    /**
+     * The spend models' metrics, primary first; conversion-only data have {@link #PAYER_RATE} alone.
+     *
+     * @param hasSpend whether the data have spend
+     * @return the metrics
+     */
     public static List<Metric> spend(boolean hasSpend) {
         return hasSpend ? List.of(ARPU, PAYER_RATE, ARPPU) : List.of(PAYER_RATE);
     }
 
-    /** Day-N retention (key {@code d7}, label {@code D7}). */
+    /**
+     * Day-N retention (key {@code d7}, label {@code D7}).
+     *
+     * @param n the day
+     * @return the metric
+     */
     public static Metric day(int n) {
         return new Metric("d" + n, "D" + n, Unit.SHARE);
     }
 
-    /** The metric of a key as results write it; an unknown key becomes a metric labelled by itself. */
+    /**
+     * The metric of a key as results write it; an unknown key becomes a metric labelled by itself.
+     *
+     * @param key the key, e.g. "arpu" or "d7"
+     * @return the metric
+     */
     public static Metric of(String key) {
         for (Metric m : List.of(ARPU, PAYER_RATE, ARPPU, LTV)) {
             if (m.key.equals(key)) {
@@ -53,7 +68,12 @@ public record Metric(String key, String label, Unit unit) {
         return new Metric(key, key, Unit.SHARE);
     }
 
-    /** The draw column of this metric for an arm or scope: {@code key[arm]}. */
+    /**
+     * The draw column of this metric for an arm or scope: {@code key[arm]}.
+     *
+     * @param armOrScope the arm, or a scope such as "population"
+     * @return the column name
+     */
     public String column(String armOrScope) {
         return key + "[" + armOrScope + "]";
     }

@@ -36,7 +36,13 @@ public record DataSpec(String path, String layout, Map<String, String> columns, 
         this(path, layout, columns, rows, null);
     }
 
-    /** The data column for a logical column, {@code columns.<name>} or the default name. */
+    /**
+     * The data column for a logical column, {@code columns.<name>} or the default name.
+     *
+     * @param logical     the logical column, e.g. "arm"
+     * @param defaultName the name read when the spec maps none
+     * @return the column's name in the data
+     */
     public String column(String logical, String defaultName) {
         if (columns != null && columns.get(logical) != null) {
             return columns.get(logical);
@@ -44,6 +50,12 @@ public record DataSpec(String path, String layout, Map<String, String> columns, 
         return defaultName;
     }
 
+    /**
+     * Whether the spec maps a logical column to a name of its own.
+     *
+     * @param logical the logical column
+     * @return true when {@code data.columns} names it
+     */
     public boolean mapped(String logical) {
         return columns != null && columns.containsKey(logical);
     }

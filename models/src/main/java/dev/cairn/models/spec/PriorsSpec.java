@@ -51,6 +51,9 @@ public record PriorsSpec(BetaPrior payerRate, NigPrior logSpend, NormalPrior log
     public record HistorySpec(String path) {
     }
 
+    /**
+     * {@return whether the non-conjugate spend priors (logSpendMean, logSpendSd) are given, either of them}
+     */
     public boolean nonConjugate() {
         return logSpendMean != null || logSpendSd != null;
     }

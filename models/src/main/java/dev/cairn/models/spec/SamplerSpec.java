@@ -12,6 +12,9 @@ public record SamplerSpec(String method, Integer chains, Integer warmup, Integer
                           Integer threads) {
     public static final SamplerSpec DEFAULT = new SamplerSpec("auto", 4, 1000, 1000, 1, 1L, null);
 
+    /**
+     * {@return the same block with the defaults filled in where it gives nothing}
+     */
     public SamplerSpec withDefaults() {
         return new SamplerSpec(method == null ? DEFAULT.method : method,
                 chains == null ? DEFAULT.chains : chains,

@@ -53,18 +53,30 @@ public record Spec(
         }
     }
 
+    /**
+     * {@return the sampler block with its defaults filled in}
+     */
     public SamplerSpec samplerOrDefault() {
         return sampler == null ? SamplerSpec.DEFAULT : sampler.withDefaults();
     }
 
+    /**
+     * {@return the interval probability, decision.interval or 0.95}
+     */
     public double interval() {
         return decision == null || decision.interval() == null ? 0.95 : decision.interval();
     }
 
+    /**
+     * {@return whether strict is set (warnings about the data become errors)}
+     */
     public boolean isStrict() {
         return strict != null && strict;
     }
 
+    /**
+     * {@return the priors block, or an empty one}
+     */
     public PriorsSpec priorsOrEmpty() {
         return priors == null ? new PriorsSpec(null, null, null, null, null, null, null) : priors;
     }

@@ -46,6 +46,13 @@ public final class SpecReader {
     private SpecReader() {
     }
 
+    /**
+     * Reads and validates a spec file (UTF-8 JSON; a byte order mark is skipped).
+     *
+     * @param file the spec
+     * @return the validated spec
+     * @throws dev.cairn.models.InputException one line naming the file and the field
+     */
     public static Spec read(Path file) {
         String origin = file.toString();
         if (Files.isDirectory(file)) {
@@ -68,7 +75,14 @@ public final class SpecReader {
         return parse(text, origin);
     }
 
-    /** Parses and validates spec text; {@code origin} names it in messages. */
+    /**
+     * Parses and validates spec text; {@code origin} names it in messages.
+     *
+     * @param text   the JSON text
+     * @param origin the spec's name
+     * @return the validated spec
+     * @throws dev.cairn.models.InputException one line naming the field
+     */
     public static Spec parse(String text, String origin) {
         if (text.startsWith("\uFEFF")) { // a byte order mark some editors write; JSON readers may skip it (RFC 8259)
             text = text.substring(1);
@@ -159,13 +173,25 @@ public final class SpecReader {
         return message.startsWith(prefix) ? message.substring(prefix.length()) : message;
     }
 
-    /** The known name nearest to {@code key} in edit distance, when near enough to be a likely typo; else null. */
+    /**
+     * The known name nearest to {@code key} in edit distance, when near enough to be a likely typo; else null.
+     *
+     * @param key   the name given
+     * @param known the names that exist
+     * @return the likely intended name, or null
+     */
     public static String closest(String key, List<String> known) {
         String best = nearest(key, known);
         return best != null && distance(key, best) <= Math.max(2, best.length() / 3) ? best : null;
     }
 
-    /** The known name nearest to {@code key} in edit distance (case ignored), however far; null if none. */
+    /**
+     * The known name nearest to {@code key} in edit distance (case ignored), however far; null if none.
+     *
+     * @param key   the name given
+     * @param known the names that exist
+     * @return the nearest name, or null when known is empty
+     */
     public static String nearest(String key, List<String> known) {
         String best = null;
         int bestDistance = Integer.MAX_VALUE;

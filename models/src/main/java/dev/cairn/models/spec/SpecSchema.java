@@ -17,6 +17,9 @@ public final class SpecSchema {
     private SpecSchema() {
     }
 
+    /**
+     * {@return the spec's JSON schema (draft 2020-12), as bundled in the jar}
+     */
     public static String text() {
         try (InputStream in = SpecSchema.class.getResourceAsStream(RESOURCE)) {
             if (in == null) {

@@ -31,7 +31,13 @@ public final class SpendAnalysis {
     private SpendAnalysis() {
     }
 
-    /** Adds arppu[arm] = exp(mu + sigma^2 / 2) and arpu[arm] = payerRate x arppu for every arm. */
+    /**
+     * Adds arppu[arm] = exp(mu + sigma^2 / 2) and arpu[arm] = payerRate x arppu for every arm.
+     *
+     * @param draws the model's draws
+     * @param data  the arms' data (whether there is spend)
+     * @return the draws with the derived columns (the same draws for conversion-only data)
+     */
     public static Draws withDerived(Draws draws, SpendData data) {
         if (!data.hasSpend()) {
             return draws;
@@ -50,14 +56,26 @@ public final class SpendAnalysis {
         return draws.withDerived(names, fs);
     }
 
-    /** The metrics compared: ARPU, payer rate and ARPPU with spend; the payer rate alone without. */
+    /**
+     * The metrics compared: ARPU, payer rate and ARPPU with spend; the payer rate alone without.
+     *
+     * @param data the arms' data
+     * @return the metrics' keys
+     */
     public static List<String> metrics(SpendData data) {
         return data.hasSpend()
                 ? List.of(SpendPosterior.ARPU, SpendPosterior.PAYER_RATE, SpendPosterior.ARPPU)
                 : List.of(SpendPosterior.PAYER_RATE);
     }
 
-    /** Per-arm summaries (arms in parallel; each summary depends on its own draws only). */
+    /**
+     * Per-arm summaries (arms in parallel; each summary depends on its own draws only).
+     *
+     * @param draws the draws with derived columns
+     * @param data  the arms' data
+     * @param level the intervals' probability
+     * @return per arm, its counts and metric intervals
+     */
     public static Map<String, ArmSummary> arms(Draws draws, SpendData data, double level) {
         List<ArmSummary> summaries = inParallel(data.arms().size(), k -> {
             ArmStats a = data.arms().get(k);
@@ -80,13 +98,27 @@ public final class SpendAnalysis {
         return java.util.stream.IntStream.range(0, n).parallel().mapToObj(task).toList();
     }
 
-    /** Every non-control arm against the control on every metric, draw by draw. */
+    /**
+     * Every non-control arm against the control on every metric, draw by draw.
+     *
+     * @param draws   the draws with derived columns
+     * @param data    the arms' data
+     * @param control the control arm
+     * @param level   the intervals' probability
+     * @return the comparisons
+     */
     public static List<Comparison> comparisons(Draws draws, SpendData data, String control, double level) {
         return Decisions.compareAll(data.armNames(), control, metrics(data),
                 (metric, arm) -> draws.pooled(SpendPosterior.name(metric, arm)), level);
     }
 
-    /** P(best) per metric: the share of draws in which each arm has the highest value of the metric. */
+    /**
+     * P(best) per metric: the share of draws in which each arm has the highest value of the metric.
+     *
+     * @param draws the draws with derived columns
+     * @param data  the arms' data
+     * @return per metric, per arm, P(best)
+     */
     public static Map<String, Map<String, Double>> probBest(Draws draws, SpendData data) {
         Map<String, Map<String, Double>> out = new LinkedHashMap<>();
         for (String metric : metrics(data)) {
@@ -184,7 +216,12 @@ public final class SpendAnalysis {
         return out;
     }
 
-    /** A plain-words warning for each misfit. */
+    /**
+     * A plain-words warning for each misfit.
+     *
+     * @param checks the predictive checks
+     * @return one line per check marked a misfit
+     */
     public static List<String> warnings(List<Check> checks) {
         List<String> out = new ArrayList<>();
         for (Check c : checks) {

@@ -24,6 +24,15 @@ public final class SpendFit {
     private SpendFit() {
     }
 
+    /**
+     * Fits a spend spec.
+     *
+     * @param spec    the validated spec
+     * @param baseDir the folder relative data paths resolve against
+     * @param options threads, progress, cancellation
+     * @return the result, draws and the predictive checks' draws
+     * @throws InputException for bad data, or an arm without payers under the default spend prior
+     */
     public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
         Fitting fitting = Fitting.start(spec, options);
         SpendData data = SpendDataReader.read(spec.data(), baseDir, spec.isStrict());

@@ -62,6 +62,13 @@ public final class SpendPosterior {
     private SpendPosterior() {
     }
 
+    /**
+     * The draw column of a quantity for an arm.
+     *
+     * @param quantity e.g. "payerRate", "mu", "sigma"
+     * @param arm      the arm
+     * @return the column name, {@code quantity[arm]}
+     */
     public static String name(String quantity, String arm) {
         return quantity + "[" + arm + "]";
     }
@@ -79,7 +86,16 @@ public final class SpendPosterior {
         return b.build();
     }
 
-    /** Exact i.i.d. draws (conjugate priors or conversion-only data). */
+    /**
+     * Exact i.i.d. draws (conjugate priors or conversion-only data).
+     *
+     * @param data         the arms' data
+     * @param priors       the priors (conjugate)
+     * @param settings     chains, draws, seed, threads
+     * @param progress     receives each chain's progress
+     * @param cancellation stops the chains when cancelled
+     * @return the draws
+     */
     public static Draws exact(SpendData data, SpendPriors priors, RunSettings settings, Progress progress,
                               Cancellation cancellation) {
         List<ArmStats> arms = data.arms();
@@ -129,7 +145,17 @@ public final class SpendPosterior {
         return new double[] {mun, kn, an, bn};
     }
 
-    /** Metropolis-within-Gibbs: exact Beta draws for payer rates, {@code update} steps for mu and sigma. */
+    /**
+     * Metropolis-within-Gibbs: exact Beta draws for payer rates, {@code update} steps for mu and sigma.
+     *
+     * @param data         the arms' data
+     * @param priors       the priors (non-conjugate)
+     * @param slice        slice steps for mu and sigma, else Metropolis steps
+     * @param settings     chains, warmup, draws, seed, threads
+     * @param progress     receives each chain's progress
+     * @param cancellation stops the chains when cancelled
+     * @return the draws
+     */
     public static Draws mcmc(SpendData data, SpendPriors priors, boolean slice, RunSettings settings, Progress progress,
                              Cancellation cancellation) {
         Parameters parameters = parameters(data);

@@ -31,11 +31,20 @@ public record SpendPriors(Beta payerRate, NormalInverseGamma logSpend, Normal lo
     public static final Beta DEFAULT_PAYER_RATE = new Beta(1, 1);
     public static final NormalInverseGamma DEFAULT_LOG_SPEND = new NormalInverseGamma(0, 0.01, 1, 1);
 
+    /**
+     * {@return whether the log-spend prior is the conjugate normal-inverse-gamma}
+     */
     public boolean conjugate() {
         return logSpend != null;
     }
 
-    /** The priors of a spec (defaults where it gives none). */
+    /**
+     * The priors of a spec (defaults where it gives none).
+     *
+     * @param p the spec's priors
+     * @return the priors
+     * @throws dev.cairn.models.InputException naming a bad prior parameter
+     */
     public static SpendPriors fromSpec(PriorsSpec p) {
         Beta beta = p.payerRate() == null ? DEFAULT_PAYER_RATE : Priors.of(p.payerRate());
         boolean any = p.payerRate() != null || p.logSpend() != null || p.nonConjugate();
