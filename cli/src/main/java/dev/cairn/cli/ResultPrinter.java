@@ -23,7 +23,28 @@ final class ResultPrinter {
         if (r instanceof dev.cairn.models.result.RetentionResult retention) {
             return retention(retention);
         }
-        return spend((Result) r);
+        if (r instanceof Result spend) {
+            return spend(spend);
+        }
+        return generic(r);
+    }
+
+    /** A result of a model this printer has no table for: the run, the verdict, the comparisons, the warnings. */
+    static String generic(FitResult r) {
+        StringBuilder sb = new StringBuilder();
+        title(sb, r);
+        sb.append(String.format(Locale.ROOT, "%s from %s; %s sampler, %d chains x %,d draws, seed %d%n", r.model(),
+                r.data().source(), r.run().method(), r.run().chains(), r.run().draws(), r.run().seed()));
+        verdict(sb, r);
+        if (!r.comparisons().isEmpty()) {
+            sb.append('\n');
+            for (Comparison c : r.comparisons()) {
+                sb.append(String.format(Locale.ROOT, "  %-12s vs %-12s %-10s  lift %s  P(above) %.3f%n", c.arm(),
+                        c.control(), c.metric(), lift(c), c.probAbove()));
+            }
+        }
+        warningsAndCautions(sb, r);
+        return sb.toString();
     }
 
     static String pooled(PooledResult r) {

@@ -64,6 +64,11 @@ public final class HtmlReport {
             pooledSections(sb, pooled, outcome.draws());
         } else if (r instanceof RetentionResult retention) {
             retentionSections(sb, retention, outcome);
+        } else if (!r.comparisons().isEmpty()) {
+            // a model the report has no sections for: its comparisons as they are
+            sb.append("<section><h2>Comparisons</h2>");
+            comparisonTable(sb, r.comparisons());
+            sb.append("</section>\n");
         }
         diagnostics(sb, r.diagnostics(), outcome.draws());
         sb.append("</main></body></html>\n");
@@ -275,14 +280,21 @@ public final class HtmlReport {
                     values.stream().mapToDouble(Interval::lo).toArray(), values.stream().mapToDouble(Interval::median).toArray(),
                     values.stream().mapToDouble(Interval::hi).toArray(), null, null, null));
         }
-        sb.append("</div><table><tr><th>arm</th><th>metric</th><th>lift median [lo, hi]</th><th>P(above)</th>"
+        sb.append("</div>");
+        comparisonTable(sb, r.comparisons());
+        sb.append("</section>\n");
+    }
+
+    /** The comparisons as a table: arm, metric, lift interval, P(above), expected loss. */
+    private static void comparisonTable(StringBuilder sb, List<Comparison> comparisons) {
+        sb.append("<table><tr><th>arm</th><th>metric</th><th>lift median [lo, hi]</th><th>P(above)</th>"
                 + "<th>expected loss</th></tr>");
-        for (Comparison c : r.comparisons()) {
+        for (Comparison c : comparisons) {
             sb.append("<tr><td>").append(esc(c.arm())).append("</td><td>").append(esc(c.metric().toUpperCase(Locale.ROOT)))
                     .append("</td><td>").append(pct(c.lift())).append("</td><td>").append(fmt(c.probAbove(), 3))
                     .append("</td><td>").append(sig(c.expectedLoss())).append("</td></tr>");
         }
-        sb.append("</table></section>\n");
+        sb.append("</table>");
     }
 
     private static void diagnostics(StringBuilder sb, DiagnosticsSummary diag, Draws d) {

@@ -2,21 +2,38 @@ package dev.cairn.models.result;
 
 import java.util.List;
 
-/** What every model's result has: the model, the verdict, warnings and the cautions shown with it. */
-public sealed interface FitResult permits Result, PooledResult, RetentionResult {
+/**
+ * What every model's result has: the parts the terminal, the report and other tools can show for any model.
+ * Each model's result is its own record implementing this (a new model's result needs no change here; the
+ * command line shows an unknown result type through these parts alone).
+ */
+public interface FitResult {
+    /** {@return the spec's model name} */
     String model();
 
+    /** {@return the spec's title, or null} */
     String title();
 
+    /** {@return whether every quantity passed the convergence thresholds} */
     boolean converged();
 
+    /** {@return where the data came from and how much was read} */
     DataInfo data();
 
+    /** {@return the convergence diagnostics block} */
     DiagnosticsSummary diagnostics();
 
+    /** {@return what ran: sampler, chains, draws, seed, seconds, version} */
     Run run();
 
+    /** {@return warnings, the not-converged one first} */
     List<String> warnings();
 
+    /** {@return the cautions shown with every result} */
     List<String> cautions();
+
+    /** {@return the comparisons of arms against the control (none for a model without arms)} */
+    default List<Comparison> comparisons() {
+        return List.of();
+    }
 }
