@@ -17,6 +17,10 @@ final class ResultPrinter {
     }
 
     static String print(FitResult r) {
+        return decision(r) + body(r);
+    }
+
+    private static String body(FitResult r) {
         if (r instanceof PooledResult pooled) {
             return pooled(pooled);
         }
@@ -27,6 +31,35 @@ final class ResultPrinter {
             return spend(spend);
         }
         return generic(r);
+    }
+
+    /**
+     * The decision, first: the outcome in a sentence, then each arm's expected loss, P(best) and lift on the
+     * metric decided on; and which arm is the control when cairn chose it.
+     */
+    static String decision(FitResult r) {
+        dev.cairn.models.result.Decision d = r.decision();
+        if (d == null) {
+            return "";
+        }
+        dev.cairn.models.result.Metric metric = dev.cairn.models.result.Metric.of(d.metric());
+        StringBuilder sb = new StringBuilder();
+        sb.append("Decision on ").append(metric.label()).append(": ").append(d.statement()).append('\n');
+        int width = Math.max(4, d.arms().stream().mapToInt(a -> a.arm().length()).max().orElse(4));
+        for (dev.cairn.models.result.Decision.ArmDecision a : d.arms()) {
+            String lift = a.lift() == null ? (a.arm().equals(r.control()) ? "control" : "undefined")
+                    : String.format(Locale.ROOT, "lift %s", Numbers.sig(100 * a.lift().median(), 3) + "% ["
+                    + Numbers.sig(100 * a.lift().lo(), 3) + "%, " + Numbers.sig(100 * a.lift().hi(), 3) + "%]");
+            sb.append(String.format(Locale.ROOT, "  %-" + width + "s  expected loss %-34s  P(best) %5.1f%%  %s%n",
+                    a.arm(), metric.amount(a.expectedLoss(), r.currency()), 100 * a.probBest(), lift));
+        }
+        sb.append("  (tolerance ").append(metric.amount(d.tolerance(), r.currency()))
+                .append("default".equals(d.toleranceSource()) ? ", 1% of the control's mean; set decision.tolerance" : ", from the spec")
+                .append(". The rule bounds the loss expected from acting now; it is not an error rate.)\n");
+        if ("default".equals(r.controlSource())) {
+            sb.append("  Control: ").append(r.control()).append(", the first arm in sorted order (name another with \"control\").\n");
+        }
+        return sb.append('\n').toString();
     }
 
     /** A result of a model this printer has no table for: the run, the verdict, the comparisons, the warnings. */

@@ -131,4 +131,54 @@ public final class Fitting {
         }
         return report;
     }
+
+    /**
+     * The metric the decision block decides on: the spec's {@code decision.metric} when it names one of
+     * {@code available}, else {@code primary}.
+     *
+     * @param available the metrics this fit compares arms on
+     * @param primary   the model's primary metric
+     * @return the metric
+     * @throws InputException when the spec names a metric this fit does not have
+     */
+    public dev.cairn.models.result.Metric decisionMetric(List<dev.cairn.models.result.Metric> available,
+                                                        dev.cairn.models.result.Metric primary) {
+        String key = spec.decisionMetric();
+        if (key == null) {
+            return primary;
+        }
+        for (dev.cairn.models.result.Metric m : available) {
+            if (m.key().equals(key)) {
+                return m;
+            }
+        }
+        throw new InputException("/decision/metric: '" + key + "' is not a metric of this fit; use "
+                + available.stream().map(m -> "'" + m.key() + "'").collect(java.util.stream.Collectors.joining(", ")));
+    }
+
+    /**
+     * The decision block (see {@link dev.cairn.models.decision.Decisions#decide}) with the spec's tolerance,
+     * interval and currency.
+     *
+     * @param arms    the arms
+     * @param control the control arm
+     * @param metric  the metric decided on
+     * @param drawsOf an arm's draws of the metric
+     * @return the decision
+     */
+    public dev.cairn.models.result.Decision decide(List<String> arms, String control, dev.cairn.models.result.Metric metric,
+                                                   java.util.function.Function<String, double[]> drawsOf) {
+        return dev.cairn.models.decision.Decisions.decide(arms, control, metric, drawsOf, spec.decisionTolerance(),
+                level(), spec.currency());
+    }
+
+    /** {@return "spec" when the spec names the control, "default" when it is the first arm in sorted order} */
+    public String controlSource() {
+        return spec.control() != null ? "spec" : "default";
+    }
+
+    /** {@return the spec's currency code, or null} */
+    public String currency() {
+        return spec.currency();
+    }
 }

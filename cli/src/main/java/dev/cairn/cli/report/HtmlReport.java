@@ -58,6 +58,7 @@ public final class HtmlReport {
                 .append(STYLE).append("</style></head><body>\n");
         header(sb, r, source);
         sb.append("<main>\n");
+        decision(sb, r);
         if (r instanceof Result spend) {
             spendSections(sb, spend, outcome);
         } else if (r instanceof PooledResult pooled) {
@@ -73,6 +74,38 @@ public final class HtmlReport {
         diagnostics(sb, r.diagnostics(), outcome.draws());
         sb.append("</main></body></html>\n");
         return sb.toString();
+    }
+
+    /** The decision first: the outcome in a sentence, each arm's figures, the tolerance and what the rule means. */
+    private static void decision(StringBuilder sb, FitResult r) {
+        dev.cairn.models.result.Decision d = r.decision();
+        if (d == null) {
+            return;
+        }
+        dev.cairn.models.result.Metric metric = dev.cairn.models.result.Metric.of(d.metric());
+        sb.append("<section id=\"decision\"><h2>Decision on ").append(esc(metric.label())).append("</h2><p class=\"decision\">")
+                .append(esc(d.statement())).append("</p><table><tr><th>arm</th><th>expected loss (")
+                .append(esc(metric.unit() == dev.cairn.models.result.Metric.Unit.SHARE ? "percentage points"
+                        : metric.unitLabel(r.currency())))
+                .append(")</th><th>P(best)</th><th>lift against the control, median [lo, hi]</th></tr>");
+        for (dev.cairn.models.result.Decision.ArmDecision a : d.arms()) {
+            double loss = metric.unit() == dev.cairn.models.result.Metric.Unit.SHARE ? 100 * a.expectedLoss() : a.expectedLoss();
+            sb.append("<tr><td>").append(esc(a.arm())).append("</td><td>").append(sig(loss)).append("</td><td>")
+                    .append(fmt(100 * a.probBest(), 1)).append("%</td><td>")
+                    .append(a.lift() == null ? (a.arm().equals(r.control()) ? "control" : "undefined") : pct(a.lift()))
+                    .append("</td></tr>");
+        }
+        sb.append("</table><p class=\"note\">Tolerance ").append(esc(metric.amount(d.tolerance(), r.currency())))
+                .append("default".equals(d.toleranceSource()) ? " (1% of the control's posterior mean; set decision.tolerance)"
+                        : " (from the spec)")
+                .append(". The arm with the least expected loss against the best arm is chosen once that loss is below the "
+                        + "tolerance; otherwise the test should run on. The rule bounds the loss expected from acting now, "
+                        + "in the metric's unit; it is not a false-positive rate.");
+        if ("default".equals(r.controlSource())) {
+            sb.append(" The control, ").append(esc(r.control()))
+                    .append(", is the first arm in sorted order; the spec's \"control\" names another.");
+        }
+        sb.append("</p></section>\n");
     }
 
     private static void header(StringBuilder sb, FitResult r, String source) {

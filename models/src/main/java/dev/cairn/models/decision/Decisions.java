@@ -1,6 +1,8 @@
 package dev.cairn.models.decision;
 
 import dev.cairn.models.result.Comparison;
+import dev.cairn.models.result.Decision;
+import dev.cairn.models.result.Metric;
 import dev.cairn.models.result.Interval;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -118,5 +120,91 @@ public final class Decisions {
             String metric = pairs.get(k)[1];
             return compare(a, control, metric, drawsOf.apply(metric, a), drawsOf.apply(metric, control), level);
         }).toList());
+    }
+
+    /** The default tolerance: this share of the control's posterior mean of the metric. */
+    public static final double DEFAULT_RELATIVE_TOLERANCE = 0.01;
+
+    /**
+     * The decision on one metric by the expected-loss rule of Bayesian decision theory (Berger 1985,
+     * "Statistical Decision Theory and Bayesian Analysis", chapter 4): choosing arm a loses, in a draw,
+     * max_b theta_b - theta_a; its expected loss is that averaged over the draws. The arm with the least
+     * expected loss is the Bayes choice; it is acted on (ship it, or keep the control when it is the control)
+     * once its expected loss is below {@code tolerance}, else the outcome is to keep collecting data. The rule
+     * bounds the loss expected from acting now, in the metric's unit; it is not a frequentist error rate.
+     *
+     * @param arms      the arms (at least two)
+     * @param control   the control arm
+     * @param metric    the metric
+     * @param drawsOf   an arm's draws of the metric (paired across arms, all of one length)
+     * @param tolerance the expected loss accepted, in the metric's unit; null for the default,
+     *                  {@value #DEFAULT_RELATIVE_TOLERANCE} x the control's posterior mean (its absolute value)
+     * @param level     the lift intervals' probability
+     * @param currency  the ISO 4217 code of money figures, or null
+     * @return the decision and each arm's figures
+     */
+    public static Decision decide(List<String> arms, String control, Metric metric,
+                                  java.util.function.Function<String, double[]> drawsOf, Double tolerance,
+                                  double level, String currency) {
+        double[][] values = new double[arms.size()][];
+        for (int k = 0; k < arms.size(); k++) {
+            values[k] = drawsOf.apply(arms.get(k));
+        }
+        int n = values[0].length;
+        double[] loss = new double[arms.size()];
+        long[] best = new long[arms.size()];
+        for (int i = 0; i < n; i++) {
+            int argmax = 0;
+            for (int k = 1; k < arms.size(); k++) {
+                if (values[k][i] > values[argmax][i]) {
+                    argmax = k;
+                }
+            }
+            best[argmax]++;
+            for (int k = 0; k < arms.size(); k++) {
+                loss[k] += values[argmax][i] - values[k][i];
+            }
+        }
+        int c = arms.indexOf(control);
+        double controlMean = java.util.Arrays.stream(values[c]).average().orElse(0);
+        double tol = tolerance != null ? tolerance : DEFAULT_RELATIVE_TOLERANCE * Math.abs(controlMean);
+        List<Decision.ArmDecision> figures = new ArrayList<>();
+        int chosen = 0;
+        for (int k = 0; k < arms.size(); k++) {
+            loss[k] /= n;
+            if (loss[k] < loss[chosen] || (loss[k] == loss[chosen] && k == c)) {
+                chosen = k;
+            }
+            Interval lift = null;
+            if (k != c) {
+                Comparison cmp = compare(arms.get(k), control, metric.key(), values[k], values[c], level);
+                lift = cmp.lift();
+            }
+            figures.add(new Decision.ArmDecision(arms.get(k), loss[k], (double) best[k] / n, lift));
+        }
+        String arm = arms.get(chosen);
+        String unit = metric.unitLabel(currency);
+        String lossText = metric.amount(loss[chosen], currency);
+        String tolText = metric.amount(tol, currency);
+        String outcome;
+        String statement;
+        String share = Math.round(100 * (double) best[chosen] / n) + "%";
+        if (loss[chosen] < tol || loss[chosen] == 0) {
+            outcome = chosen == c ? "keep-control" : "ship";
+            statement = chosen == c
+                    ? "Keep the control, " + arm + ": it is the best arm on " + metric.label() + " with probability "
+                    + share + ", and no other arm is expected to gain more than the tolerance (expected loss "
+                    + lossText + ", tolerance " + tolText + ")."
+                    : "Ship " + arm + ": it is the best arm on " + metric.label() + " with probability " + share
+                    + ", and choosing it is expected to cost " + lossText + " against whichever arm is truly best, "
+                    + "below the tolerance of " + tolText + ".";
+        } else {
+            outcome = "keep-collecting";
+            statement = "Keep collecting data: " + arm + " looks best on " + metric.label() + " (probability " + share
+                    + "), but choosing it now could still cost " + lossText + " in expectation, above the tolerance of "
+                    + tolText + ".";
+        }
+        return new Decision(metric.key(), unit, outcome, arm, statement, tol, tolerance != null ? "spec" : "default",
+                figures);
     }
 }

@@ -32,6 +32,26 @@ public interface FitResult {
     /** {@return the cautions shown with every result} */
     List<String> cautions();
 
+    /** {@return what to do on the primary metric, or null for a model without arms to choose from} */
+    default Decision decision() {
+        return null;
+    }
+
+    /** {@return the control arm, or null for a model without one} */
+    default String control() {
+        return null;
+    }
+
+    /** {@return "spec" when the spec named the control, "default" when cairn chose it, null without one} */
+    default String controlSource() {
+        return null;
+    }
+
+    /** {@return the ISO 4217 code of money figures, or null when the spec gives none} */
+    default String currency() {
+        return null;
+    }
+
     /** {@return the comparisons of arms against the control (none for a model without arms)} */
     default List<Comparison> comparisons() {
         return List.of();

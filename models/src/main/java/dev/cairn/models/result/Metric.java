@@ -77,4 +77,43 @@ public record Metric(String key, String label, Unit unit) {
     public String column(String armOrScope) {
         return key + "[" + armOrScope + "]";
     }
+
+    /**
+     * The unit of this metric's values, for people.
+     *
+     * @param currency the ISO 4217 code of money figures, or null when the spec gives none
+     * @return e.g. "EUR per user", "currency units per payer", "share" (shares are fractions of 1)
+     */
+    public String unitLabel(String currency) {
+        String money = currency != null ? currency : "currency units";
+        return switch (unit) {
+            case CURRENCY_PER_USER -> money + " per user";
+            case CURRENCY_PER_PAYER -> money + " per payer";
+            case CURRENCY_PER_INSTALL -> money + " per install";
+            case SHARE -> "share";
+        };
+    }
+
+    /**
+     * A value of this metric, or a difference of two, as people read it: shares as percentage points, money
+     * with its unit, three significant digits, never in exponent notation.
+     *
+     * @param value    the value in the metric's own unit
+     * @param currency the ISO 4217 code, or null
+     * @return e.g. "0.12 percentage points" or "0.0042 EUR per user"
+     */
+    public String amount(double value, String currency) {
+        if (unit == Unit.SHARE) {
+            return plain(100 * value) + " percentage points";
+        }
+        return plain(value) + " " + unitLabel(currency);
+    }
+
+    /** Three significant digits in plain notation (0 as "0"). */
+    static String plain(double v) {
+        if (v == 0 || !Double.isFinite(v)) {
+            return v == 0 ? "0" : Double.toString(v);
+        }
+        return new java.math.BigDecimal(v).round(new java.math.MathContext(3)).stripTrailingZeros().toPlainString();
+    }
 }

@@ -8,16 +8,20 @@ import java.util.Map;
 /**
  * The result of a spend fit (result v1; keys are part of the command-line contract).
  *
+ * @param decision      what to do on the primary metric (ship, keep the control, keep collecting) and why
+ * @param controlSource "spec" when the spec named the control, "default" when it is the first arm in sorted order
  * @param interval the credible interval mass of every {@link Interval} (lo and hi)
+ * @param currency the ISO 4217 code of money figures, or null
  * @param segments segmented-spend only: per segment, its arms and comparisons (pooled, with raw lifts)
  * @param probBest metric -> arm -> P(arm is the best of all arms on that metric)
  * @param priors   the priors used (defaults included), for the record
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
-@JsonPropertyOrder({"model", "title", "converged", "control", "interval", "data", "arms", "comparisons", "segments",
+@JsonPropertyOrder({"model", "title", "converged", "decision", "control", "controlSource", "interval", "currency", "data", "arms", "comparisons", "segments",
     "probBest", "checks",
     "diagnostics", "run", "priors", "warnings", "cautions"})
-public record Result(String model, String title, boolean converged, String control, double interval, DataInfo data,
+public record Result(String model, String title, boolean converged, Decision decision, String control,
+                     String controlSource, double interval, String currency, DataInfo data,
                      Map<String, ArmSummary> arms, List<Comparison> comparisons, Map<String, SegmentSummary> segments,
                      Map<String, Map<String, Double>> probBest, List<Check> checks, DiagnosticsSummary diagnostics,
                      Run run, PriorsUsed priors, List<String> warnings, List<String> cautions) implements FitResult {

@@ -8,6 +8,9 @@ import java.util.Map;
 /**
  * The result of a retention fit.
  *
+ * @param decision      what to do on the primary metric (LTV when given, else the first day) and why
+ * @param controlSource "spec" or "default" (the first arm in sorted order)
+ * @param currency      the ISO 4217 code of LTV, or null
  * @param arms     arm -> installs and day intervals (install-weighted over the cohorts)
  * @param cohorts  one entry per (cohort, arm) with installs
  * @param drift    the random walk's innovation scales: level and slope (per cohort step)
@@ -15,10 +18,11 @@ import java.util.Map;
  * @param priors   the documented priors
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
-@JsonPropertyOrder({"model", "title", "converged", "curve", "control", "interval", "days", "data", "arms", "comparisons",
+@JsonPropertyOrder({"model", "title", "converged", "decision", "curve", "control", "controlSource", "interval",
+    "currency", "days", "data", "arms", "comparisons",
     "cohorts", "drift", "ltv", "diagnostics", "run", "priors", "warnings", "cautions"})
-public record RetentionResult(String model, String title, boolean converged, String curve, String control,
-                              double interval, List<Integer> days, DataInfo data, Map<String, RetentionArm> arms,
+public record RetentionResult(String model, String title, boolean converged, Decision decision, String curve,
+                              String control, String controlSource, double interval, String currency, List<Integer> days, DataInfo data, Map<String, RetentionArm> arms,
                               List<Comparison> comparisons, List<CohortRow> cohorts,
                               Map<String, Interval> drift, Ltv ltv, DiagnosticsSummary diagnostics,
                               Run run, Priors priors, List<String> warnings, List<String> cautions)

@@ -44,6 +44,12 @@ public final class RetentionFit {
         // One arm (no arm column) is a plain curve fit with nothing to compare; otherwise arms need a control.
         String control = arms.size() == 1 && (spec.control() == null || spec.control().equals(arms.get(0)))
                 ? arms.get(0) : FitSupport.control(spec, arms, data.source());
+        List<Metric> available = new ArrayList<>();
+        days.forEach(d -> available.add(Metric.day(d)));
+        if (own.ltv() != null) {
+            available.add(Metric.LTV);
+        }
+        Metric decided = fitting.decisionMetric(available, own.ltv() != null ? Metric.LTV : available.get(0));
         String method = FitSupport.gradientMethod(spec.samplerOrDefault().method(), "retention",
                 RetentionPosterior.AUTO, RetentionPosterior.LAPLACE_METROPOLIS);
         RetentionPosterior model = new RetentionPosterior(data, control, survival, method.equals(RetentionPosterior.LAPLACE_METROPOLIS));
@@ -112,8 +118,9 @@ public final class RetentionFit {
                 ? "log alpha_1 ~ N(0, 1.5^2), log beta_1 ~ N(1, 1.5^2)"
                 : "day-7 logit level_1 ~ N(-1.5, 2^2), slope_1 ~ N(-0.6, 1), log kappa ~ N(log 100, 1.5^2)")
                 + "; arm offsets ~ N(0, 1); drift scales ~ half-N(0.25)");
-        RetentionResult result = new RetentionResult("retention", spec.title(), fitting.converged(), own.curve(), control,
-                level, days, new DataInfo(data.source(), "cohort-days", data.rows(), 0, null), armOut, comparisons,
+        RetentionResult result = new RetentionResult("retention", spec.title(), fitting.converged(),
+                arms.size() < 2 ? null : fitting.decide(arms, control, decided, arm -> draws.pooled(decided.column(arm))),
+                own.curve(), control, arms.size() < 2 ? null : fitting.controlSource(), level, fitting.currency(), days, new DataInfo(data.source(), "cohort-days", data.rows(), 0, null), armOut, comparisons,
                 cohorts, drift, ltv, fitting.summary(), fitting.run(method, null),
                 priors, fitting.warnings(List.of()), Result.CAUTIONS);
         return new FitOutcome(result, draws, curveBands(internal, model, data, days, level, horizon));

@@ -34,6 +34,8 @@ public final class SegmentedFit {
         List<String> arms = data.arms();
         List<String> segments = data.segments();
         String control = FitSupport.control(spec, arms, data.source());
+        List<Metric> available = Metric.spend(data.hasSpend());
+        Metric decided = fitting.decisionMetric(available, available.get(0));
         String method = FitSupport.gradientMethod(spec.samplerOrDefault().method(), "segmented-spend", "nuts");
         SegmentedPosterior model = new SegmentedPosterior(data, control, own.parameterisation());
         RunSettings settings = fitting.settings(false);
@@ -99,7 +101,10 @@ public final class SegmentedFit {
             probBest.put(metric, dev.cairn.models.decision.Decisions.probBest(arms,
                     arm -> draws.pooled(SegmentedOutputs.cell(metric, SegmentedOutputs.POPULATION, arm))));
         }
-        Result result = new Result("segmented-spend", spec.title(), fitting.converged(), control, level,
+        Result result = new Result("segmented-spend", spec.title(), fitting.converged(),
+                fitting.decide(arms, control, decided,
+                        arm -> draws.pooled(SegmentedOutputs.cell(decided.key(), SegmentedOutputs.POPULATION, arm))),
+                control, fitting.controlSource(), level, fitting.currency(),
                 new DataInfo(data.source(), spec.data().layout(), data.rows(), total, data.query()), overall,
                 comparisons, perSegment, probBest, List.of(), fitting.summary(),
                 fitting.run(method, model.layout.describe(own.parameterisation())),

@@ -19,6 +19,7 @@ public record Spec(
         DecisionSpec decision,
         ConvergenceSpec convergence,
         Boolean strict,
+        String currency,
         @com.fasterxml.jackson.annotation.JsonIgnore com.fasterxml.jackson.databind.JsonNode tree) {
 
     /** Binds a model's own options, ignoring the other keys (the schema has checked them). */
@@ -33,7 +34,7 @@ public record Spec(
      * @return the spec
      */
     public Spec withTree(com.fasterxml.jackson.databind.JsonNode source) {
-        return new Spec(schema, title, model, data, control, priors, sampler, decision, convergence, strict, source);
+        return new Spec(schema, title, model, data, control, priors, sampler, decision, convergence, strict, currency, source);
     }
 
     /**
@@ -58,6 +59,16 @@ public record Spec(
      */
     public SamplerSpec samplerOrDefault() {
         return sampler == null ? SamplerSpec.DEFAULT : sampler.withDefaults();
+    }
+
+    /** {@return the metric the decision block decides on, or null for the model's primary one} */
+    public String decisionMetric() {
+        return decision == null ? null : decision.metric();
+    }
+
+    /** {@return the decision's tolerance, or null for the default} */
+    public Double decisionTolerance() {
+        return decision == null ? null : decision.tolerance();
     }
 
     /**

@@ -253,6 +253,13 @@ public final class SpecReader {
             }
         }
         model.check(spec, origin);
+        if (spec.currency() != null) {
+            try {
+                java.util.Currency.getInstance(spec.currency());
+            } catch (IllegalArgumentException e) {
+                throw new InputException(origin + ": /currency: '" + spec.currency() + "' is not an ISO 4217 currency code");
+            }
+        }
         SamplerSpec s = spec.samplerOrDefault();
         long kept = (long) s.chains() * s.draws();
         if (kept > MAX_KEPT_DRAWS) {

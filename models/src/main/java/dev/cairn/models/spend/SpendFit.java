@@ -1,6 +1,7 @@
 package dev.cairn.models.spend;
 
 import dev.cairn.models.Fitting;
+import dev.cairn.models.result.Metric;
 import dev.cairn.models.FitOptions;
 import dev.cairn.models.FitSupport;
 import dev.cairn.models.FitOutcome;
@@ -38,6 +39,8 @@ public final class SpendFit {
         SpendData data = SpendDataReader.read(spec.data(), baseDir, spec.isStrict());
         List<String> arms = data.armNames();
         String control = FitSupport.control(spec, arms, data.source());
+        List<Metric> metrics = Metric.spend(data.hasSpend());
+        Metric decided = fitting.decisionMetric(metrics, metrics.get(0));
         SpendPriors priors = spec.priorsOrEmpty().fromHistory() != null
                 ? HistoryPriors.fit(spec.priorsOrEmpty().fromHistory().path(), baseDir)
                 : SpendPriors.fromSpec(spec.priorsOrEmpty());
@@ -77,7 +80,10 @@ public final class SpendFit {
             }
         }
         long users = data.arms().stream().mapToLong(ArmStats::users).sum();
-        Result result = new Result("spend", spec.title(), fitting.converged(), control, level,
+        Draws withDerived = draws;
+        Result result = new Result("spend", spec.title(), fitting.converged(),
+                fitting.decide(arms, control, decided, arm -> withDerived.pooled(decided.column(arm))), control,
+                fitting.controlSource(), level, fitting.currency(),
                 new DataInfo(data.source(), spec.data().layout(), data.rows(), users, data.query()),
                 SpendAnalysis.arms(draws, data, level),
                 SpendAnalysis.comparisons(draws, data, control, level), null,
