@@ -18,43 +18,68 @@ final class ProgressBar implements Progress {
     private final long start = System.nanoTime();
     private final AtomicLongArray done = new AtomicLongArray(256);
     private final AtomicLongArray totals = new AtomicLongArray(256);
-    private volatile boolean warmup = true;
+    private final java.util.concurrent.atomic.AtomicIntegerArray inWarmup = new java.util.concurrent.atomic.AtomicIntegerArray(256);
+    /** The whole run's iterations, known from {@link #start}; 0 until then. */
+    private volatile long runTotal;
     private long lastDrawn;
     private boolean drawn;
 
-    private ProgressBar(PrintStream err, String label) {
+    private final long delayNanos;
+    private final long intervalNanos;
+
+    private ProgressBar(PrintStream err, String label, long delayNanos, long intervalNanos) {
         this.err = err;
         this.label = label;
+        this.delayNanos = delayNanos;
+        this.intervalNanos = intervalNanos;
+    }
+
+    /** A bar drawing to {@code err} at every report from the start (for tests). */
+    static ProgressBar immediate(PrintStream err, String label) {
+        return new ProgressBar(err, label, 0, 0);
     }
 
     /** A bar when stderr is (very likely) a terminal and not silenced; else the no-op progress. */
     static Progress forTerminal(boolean quiet, String label) {
         boolean terminal = System.console() != null && !"dumb".equals(System.getenv("TERM"));
-        return quiet || !terminal ? Progress.NONE : new ProgressBar(System.err, label);
+        return quiet || !terminal ? Progress.NONE : new ProgressBar(System.err, label, DELAY_NANOS, INTERVAL_NANOS);
     }
 
     @Override
-    public void report(int chain, long iterations, long total, boolean inWarmup) {
+    public synchronized void start(int chains, long totalPerChain) {
+        runTotal = (long) chains * totalPerChain;
+        for (int i = 0; i < done.length(); i++) {
+            done.set(i, 0);
+            totals.set(i, 0);
+        }
+    }
+
+    @Override
+    public void report(int chain, long iterations, long total, boolean warming) {
         if (chain >= done.length()) {
             return;
         }
         done.set(chain, iterations);
         totals.set(chain, total);
-        warmup = inWarmup;
+        inWarmup.set(chain, warming ? 1 : 0);
         long now = System.nanoTime();
-        if (now - start < DELAY_NANOS) {
+        if (now - start < delayNanos) {
             return;
         }
         synchronized (this) {
-            if (now - lastDrawn < INTERVAL_NANOS && iterations < total) {
+            if (now - lastDrawn < intervalNanos && iterations < total) {
                 return;
             }
             lastDrawn = now;
             long sumDone = 0, sumTotal = 0;
+            boolean warmup = false;
             for (int i = 0; i < done.length(); i++) {
                 sumDone += done.get(i);
                 sumTotal += totals.get(i);
+                warmup |= inWarmup.get(i) == 1 && done.get(i) < totals.get(i);
             }
+            // one fraction of the whole run: chains not started yet count as not done, so it only grows
+            sumTotal = Math.max(sumTotal, runTotal);
             if (sumTotal == 0) {
                 return;
             }

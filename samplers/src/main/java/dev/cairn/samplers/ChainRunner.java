@@ -73,6 +73,7 @@ public final class ChainRunner {
         Parameters p = target.parameters();
         int d = p.size();
         double[][][] out = new double[settings.chains()][d][settings.draws()];
+        progress.start(settings.chains(), settings.iterationsPerChain());
         parallel((chain, stop) -> {
             UniformRandomProvider rng = RandomStreams.forChain(settings.seed(), chain);
             Chain ch = Chain.start(target, sweep, init, chain, rng);
@@ -115,6 +116,7 @@ public final class ChainRunner {
     public Draws runExact(Parameters parameters, ExactSampler sampler) {
         int d = parameters.size();
         double[][][] out = new double[settings.chains()][d][settings.draws()];
+        progress.start(settings.chains(), settings.draws());
         parallel((chain, stop) -> {
             ExactSampler.Source source = sampler.start(RandomStreams.forChain(settings.seed(), chain));
             double[] draw = new double[d];

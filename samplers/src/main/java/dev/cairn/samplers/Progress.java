@@ -12,4 +12,14 @@ public interface Progress {
      * @param warmup whether the chain is still in warmup
      */
     void report(int chain, long done, long total, boolean warmup);
+
+    /**
+     * Called once before any chain runs, with the size of the whole run, so that a display can show one
+     * overall fraction that only grows (chains that have not started yet count as not done).
+     *
+     * @param chains        the number of chains
+     * @param totalPerChain iterations each chain will run
+     */
+    default void start(int chains, long totalPerChain) {
+    }
 }
