@@ -169,15 +169,21 @@ final class ResultPrinter {
         if (!r.converged()) {
             r.diagnostics().reasons().stream().limit(12).forEach(x -> sb.append("  - ").append(x).append('\n'));
             if (r.diagnostics().reasons().size() > 12) {
-                sb.append("  - and ").append(r.diagnostics().reasons().size() - 12).append(" more (see result.json)\n");
+                sb.append("  - and ").append(r.diagnostics().reasons().size() - 12).append(" more (diagnostics.reasons in result.json)\n");
+            }
+            if (r.diagnostics().advice() != null) {
+                sb.append("  ").append(r.diagnostics().advice()).append('\n');
             }
         }
     }
 
     private static void warningsAndCautions(StringBuilder sb, FitResult r) {
-        if (r.warnings() != null && !r.warnings().isEmpty()) {
+        // the not-converged warning is the verdict above, with its reasons and advice: not repeated here
+        List<String> rest = r.warnings() == null ? List.of()
+                : r.warnings().stream().filter(w -> !w.startsWith("NOT converged")).toList();
+        if (!rest.isEmpty()) {
             sb.append("\nWarnings:\n");
-            r.warnings().forEach(w -> sb.append("  ! ").append(w).append('\n'));
+            rest.forEach(w -> sb.append("  ! ").append(w).append('\n'));
         }
         sb.append('\n');
         r.cautions().forEach(c -> sb.append("Note: ").append(c).append('\n'));

@@ -112,4 +112,47 @@ class ReportTest {
         }
         assertTrue(colours.size() > 20, "the screenshot is not blank: " + colours.size() + " colours");
     }
+
+    /**
+     * In headless Chromium, the DOM it renders for a report of demo data with duplicated user ids shows the
+     * decision first in the main part, money in the spec's currency, and the data warning the terminal prints.
+     */
+    @Test
+    void theRenderedReportLeadsWithTheDecisionAndCarriesUnitsAndWarnings() throws Exception {
+        Path chromium = Path.of("/usr/bin/chromium");
+        assumeTrue(Files.isExecutable(chromium), "Chromium is not installed here (.ci/run installs it from the "
+                + "distribution's packages); skipping the browser test");
+        Path dir = demo.resolve("duplicates");
+        Files.createDirectories(dir);
+        List<String> lines = Files.readAllLines(demo.resolve("lantern-reef-users.csv"), StandardCharsets.UTF_8);
+        List<String> withRepeats = new java.util.ArrayList<>(lines);
+        withRepeats.addAll(lines.subList(1, 51)); // 50 user ids twice
+        Files.write(dir.resolve("users.csv"), withRepeats, StandardCharsets.UTF_8);
+        Files.writeString(dir.resolve("spec.json"), """
+                {"model": "spend", "currency": "EUR", "control": "A-current",
+                 "data": {"path": "users.csv", "layout": "users",
+                          "columns": {"arm": "store_variant", "spend": "spend_d7", "user": "user_id"}}}
+                """);
+        String[] r = MainTest.run("fit", dir.resolve("spec.json").toString(), "--out", dir.resolve("out").toString());
+        assertEquals("0", r[0], r[2]);
+        Process p = new ProcessBuilder(chromium.toString(), "--headless", "--no-sandbox", "--disable-gpu",
+                "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update",
+                "--disable-sync", "--user-data-dir=" + demo.resolve("chromium-profile-2"), "--dump-dom",
+                dir.resolve("out").resolve(ReportWriter.REPORT).toUri().toString()).redirectErrorStream(false).start();
+        String dom = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
+        assertTrue(p.waitFor(120, TimeUnit.SECONDS), "chromium finished");
+        int main = dom.indexOf("<main>");
+        assertTrue(main > 0, "rendered DOM has a main part");
+        assertEquals(main + "<main>".length(), dom.indexOf("<section id=\"decision\">", main) - (dom.charAt(main + 6) == '\n' ? 1 : 0),
+                "the decision is the first thing in main");
+        Matcher decision = Pattern.compile("<p class=\"decision\">(.*?)</p>", Pattern.DOTALL).matcher(dom);
+        assertTrue(decision.find() && decision.group(1).matches("(Ship|Keep the control|Keep collecting data).*"),
+                "a plain outcome");
+        assertTrue(decision.group(1).contains("EUR per user"), "the decision's money is in EUR: " + decision.group(1));
+        Matcher warnings = Pattern.compile("<div class=\"warnings\" id=\"warnings\">(.*?)</div>", Pattern.DOTALL).matcher(dom);
+        assertTrue(warnings.find(), "a warnings block in the report");
+        assertTrue(warnings.group(1).contains("50") && warnings.group(1).toLowerCase(java.util.Locale.ROOT).contains("duplicate"),
+                "the duplicate-id warning: " + warnings.group(1));
+        assertTrue(r[1].contains("duplicate"), "the terminal says it too");
+    }
 }

@@ -24,7 +24,7 @@ class ResultPrinterTest {
         Interval lift = new Interval(0.05, 0.01, 0.03, 0.05, 0.07);
         NewModelResult r = new NewModelResult("churn-hazard", "A new model", true,
                 new DataInfo("events.csv", "events", 1200, 0, null),
-                new DiagnosticsSummary(1.002, 900.0, 850.0, 1.01, 100, List.of(), List.of(), List.of()),
+                new DiagnosticsSummary(1.002, 900.0, 850.0, 1.01, 100, List.of(), List.of(), List.of(), null),
                 new Run("nuts", 4, 1000, 1000, 1, 7, 1.5, "test"), List.of("a warning"), List.of("a caution"),
                 List.of(new Comparison("B", "A", "hazard", lift, lift, 0.99, 0.001, null, null)));
         String text = ResultPrinter.print(r);

@@ -65,6 +65,49 @@ public record DiagnosticsReport(List<ParameterDiagnostics> parameters, Threshold
                 reasons, notes);
     }
 
+    /** Margin on the draws the observed ESS per draw implies: ESS estimates are themselves noisy. */
+    static final double ADVICE_MARGIN = 1.2;
+
+    /**
+     * What to do when the fit did not converge, computed from the run: where an ESS falls short, the draws
+     * per chain that the ESS per draw seen implies for the threshold (the worst quantity's shortfall, with a
+     * 20% margin: ESS grows about linearly with the draws once the chains have mixed); where R-hat fails, that
+     * the chains disagree and need more warmup or draws.
+     *
+     * @return one sentence or two; null when the fit converged
+     */
+    public String advice() {
+        if (converged) {
+            return null;
+        }
+        double factor = 1;
+        int draws = 0;
+        boolean rhat = false;
+        for (ParameterDiagnostics p : parameters) {
+            double need = thresholds.minEssPerChain() * p.chains();
+            for (double ess : new double[] {p.essBulk(), p.essTail()}) {
+                if (ess == ess && ess > 0 && ess < need) {
+                    factor = Math.max(factor, need / ess);
+                    draws = p.draws();
+                }
+            }
+            rhat |= p.rhat() == p.rhat() && !(p.rhat() < thresholds.maxRhat());
+        }
+        StringBuilder sb = new StringBuilder();
+        if (factor > 1 && draws > 0) {
+            long needed = (long) Math.ceil(draws * factor * ADVICE_MARGIN / 100.0) * 100;
+            sb.append(String.format(Locale.ROOT, "At the ESS per draw seen, about %,d draws per chain (now %,d) would "
+                    + "meet the ESS thresholds (sampler.draws).", needed, draws));
+        }
+        if (rhat) {
+            sb.append(sb.length() > 0 ? " " : "").append(String.format(Locale.ROOT, "R-hat at or above %s means the "
+                    + "chains disagree: give more warmup and draws (sampler.warmup, sampler.draws); if it stays, the "
+                    + "posterior may have separate modes or the model may not suit the data.",
+                    format(thresholds.maxRhat())));
+        }
+        return sb.length() == 0 ? "Some diagnostics are undefined; see the reasons." : sb.toString();
+    }
+
     /** "R-hat and tail-ESS of x are undefined: why", naming the diagnostics that are missing. */
     private static String undefined(ParameterDiagnostics p) {
         List<String> which = new ArrayList<>();
@@ -76,6 +119,9 @@ public record DiagnosticsReport(List<ParameterDiagnostics> parameters, Threshold
         }
         if (Double.isNaN(p.essTail())) {
             which.add("tail-ESS");
+        }
+        if (which.isEmpty()) {
+            return "diagnostics of " + p.name() + " are undefined" + (p.note().isEmpty() ? "" : ": " + p.note());
         }
         String list = which.size() == 1 ? which.get(0)
                 : String.join(", ", which.subList(0, which.size() - 1)) + " and " + which.get(which.size() - 1);

@@ -152,7 +152,8 @@ public final class FitSupport {
      * @return one line
      */
     public static String notConverged(DiagnosticsReport report) {
-        return "NOT converged: " + String.join("; ", report.reasons())
-                + ". Do not use these numbers for decisions; run longer or change the sampler.";
+        int n = report.reasons().size();
+        return "NOT converged (" + n + (n == 1 ? " check" : " checks") + " failed, listed in diagnostics.reasons): do "
+                + "not use these numbers for decisions. " + report.advice();
     }
 }

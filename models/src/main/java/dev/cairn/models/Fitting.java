@@ -158,7 +158,7 @@ public final class Fitting {
 
     /**
      * The decision block (see {@link dev.cairn.models.decision.Decisions#decide}) with the spec's tolerance,
-     * interval and currency.
+     * interval and currency. A fit that did not converge gets no decision: outcome "no-decision", no figures.
      *
      * @param arms    the arms
      * @param control the control arm
@@ -168,8 +168,14 @@ public final class Fitting {
      */
     public dev.cairn.models.result.Decision decide(List<String> arms, String control, dev.cairn.models.result.Metric metric,
                                                    java.util.function.Function<String, double[]> drawsOf) {
-        return dev.cairn.models.decision.Decisions.decide(arms, control, metric, drawsOf, spec.decisionTolerance(),
-                level(), spec.currency());
+        dev.cairn.models.result.Decision d = dev.cairn.models.decision.Decisions.decide(arms, control, metric, drawsOf,
+                spec.decisionTolerance(), level(), spec.currency());
+        if (converged()) {
+            return d;
+        }
+        return new dev.cairn.models.result.Decision(d.metric(), d.unit(), "no-decision", null,
+                "No decision: the fit did not converge, so its numbers cannot be trusted; rerun it as the diagnostics "
+                        + "advise.", d.tolerance(), d.toleranceSource(), List.of());
     }
 
     /** {@return "spec" when the spec names the control, "default" when it is the first arm in sorted order} */

@@ -34,6 +34,20 @@ public final class ResultWriter {
      * @param result a model's result
      * @return the text
      */
+    /**
+     * Any part of a result as the JSON result.json writes for it.
+     *
+     * @param part a record of the result
+     * @return the text
+     */
+    public static String jsonOf(Object part) {
+        try {
+            return MAPPER.writeValueAsString(part);
+        } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
+    }
+
     public static String json(FitResult result) {
         try {
             return MAPPER.writeValueAsString(result) + "\n";

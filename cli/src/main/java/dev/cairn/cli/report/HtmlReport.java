@@ -71,6 +71,7 @@ public final class HtmlReport {
             comparisonTable(sb, r.comparisons());
             sb.append("</section>\n");
         }
+        priors(sb, r);
         diagnostics(sb, r.diagnostics(), outcome.draws());
         sb.append("</main></body></html>\n");
         return sb.toString();
@@ -108,6 +109,15 @@ public final class HtmlReport {
         sb.append("</p></section>\n");
     }
 
+    /** The priors the fit used, as result.json records them (given or default, and where they came from). */
+    private static void priors(StringBuilder sb, FitResult r) {
+        if (r.priors() == null) {
+            return;
+        }
+        String json = dev.cairn.models.ResultWriter.jsonOf(r.priors());
+        sb.append("<section id=\"priors\"><h2>Priors</h2><pre>").append(esc(json.strip())).append("</pre></section>\n");
+    }
+
     private static void header(StringBuilder sb, FitResult r, String source) {
         sb.append("<header><h1>").append(esc(r.title() != null ? r.title() : "cairn: " + r.model())).append("</h1>");
         String size = r.data().users() > 0 ? String.format(Locale.ROOT, "%,d users", r.data().users())
@@ -126,6 +136,13 @@ public final class HtmlReport {
         } else {
             sb.append("<div class=\"verdict bad\" id=\"verdict\">Not converged: do not use these numbers for decisions yet.")
                     .append(" See the convergence section for the reasons.</div>");
+        }
+        List<String> warnings = r.warnings() == null ? List.of()
+                : r.warnings().stream().filter(w -> !w.startsWith("NOT converged")).toList();
+        if (!warnings.isEmpty()) {
+            sb.append("<div class=\"warnings\" id=\"warnings\"><strong>Warnings</strong><ul>");
+            warnings.forEach(w -> sb.append("<li>").append(esc(w)).append("</li>"));
+            sb.append("</ul></div>");
         }
         sb.append("<div class=\"cautions\">");
         for (String c : r.cautions()) {
@@ -241,8 +258,41 @@ public final class HtmlReport {
                 sb.append(Charts.intervals(a + ": " + metrics.get(0).label() + " lift by segment", "lift", labels, lo, mid, hi,
                         raw, "raw (segment alone)", 0.0));
             }
-            sb.append("</div></section>\n");
+            sb.append("</div>");
+            segmentTable(sb, r, arms, metrics.get(0));
+            sb.append("</section>\n");
         }
+    }
+
+    /** Every segment, largest first: users, pooled and raw lift per arm on the primary metric, notes. */
+    private static void segmentTable(StringBuilder sb, Result r, List<String> arms, Metric metric) {
+        List<Map.Entry<String, SegmentSummary>> rows = new ArrayList<>(r.segments().entrySet());
+        rows.sort(Comparator.comparingLong((Map.Entry<String, SegmentSummary> e) -> -e.getValue().users())
+                .thenComparing(Map.Entry::getKey));
+        sb.append("<table id=\"segment-table\"><tr><th>segment</th><th>users</th>");
+        for (String a : arms) {
+            if (!a.equals(r.control())) {
+                sb.append("<th>").append(esc(a)).append(": ").append(esc(metric.label()))
+                        .append(" lift, pooled [lo, hi]</th><th>raw</th>");
+            }
+        }
+        sb.append("<th>notes</th></tr>");
+        for (Map.Entry<String, SegmentSummary> e : rows) {
+            sb.append("<tr><td>").append(esc(e.getKey())).append("</td><td>").append(String.format(Locale.ROOT, "%,d",
+                    e.getValue().users())).append("</td>");
+            for (String a : arms) {
+                if (a.equals(r.control())) {
+                    continue;
+                }
+                Comparison c = e.getValue().comparisons().stream()
+                        .filter(x -> x.arm().equals(a) && x.metric().equals(metric.key())).findFirst().orElse(null);
+                sb.append("<td>").append(c == null ? "" : pct(c.lift())).append("</td><td>")
+                        .append(c == null || c.rawLift() == null ? "" : fmt(100 * c.rawLift(), 1) + "%").append("</td>");
+            }
+            sb.append("<td>").append(e.getValue().notes() == null ? "" : esc(String.join("; ", e.getValue().notes())))
+                    .append("</td></tr>");
+        }
+        sb.append("</table>");
     }
 
     private static void pooledSections(StringBuilder sb, PooledResult r, Draws d) {
@@ -313,9 +363,36 @@ public final class HtmlReport {
                     values.stream().mapToDouble(Interval::lo).toArray(), values.stream().mapToDouble(Interval::median).toArray(),
                     values.stream().mapToDouble(Interval::hi).toArray(), null, null, null));
         }
-        sb.append("</div>");
+        sb.append("</div><table id=\"retention-table\"><tr><th>arm</th><th>installs</th>");
+        for (int day : r.days()) {
+            sb.append("<th>D").append(day).append(" median [lo, hi]</th>");
+        }
+        if (r.ltv() != null) {
+            sb.append("<th>LTV over ").append(r.ltv().horizon()).append(" days (")
+                    .append(esc(r.currency() != null ? r.currency() : "currency units")).append(" per install)</th>");
+        }
+        sb.append("</tr>");
+        for (String a : arms) {
+            sb.append("<tr><td>").append(esc(a)).append(a.equals(r.control()) ? " (control)" : "").append("</td><td>")
+                    .append(String.format(Locale.ROOT, "%,d", r.arms().get(a).installs())).append("</td>");
+            for (int day : r.days()) {
+                sb.append("<td>").append(percentInterval(r.arms().get(a).retention().get("d" + day))).append("</td>");
+            }
+            if (r.ltv() != null) {
+                sb.append("<td>").append(interval(r.ltv().arms().get(a))).append("</td>");
+            }
+            sb.append("</tr>");
+        }
+        sb.append("</table><p class=\"note\">Drift per install cohort (random-walk sd on the curve's logit or log "
+                + "scale): level ").append(interval(r.drift().get("level"))).append(", slope ")
+                .append(interval(r.drift().get("slope"))).append(".</p>");
         comparisonTable(sb, r.comparisons());
         sb.append("</section>\n");
+    }
+
+    /** A share's interval as percentages: median [lo, hi]. */
+    private static String percentInterval(Interval i) {
+        return i == null ? "" : fmt(100 * i.median(), 1) + "% [" + fmt(100 * i.lo(), 1) + "%, " + fmt(100 * i.hi(), 1) + "%]";
     }
 
     /** The comparisons as a table: arm, metric, lift interval, P(above), expected loss. */
@@ -334,8 +411,11 @@ public final class HtmlReport {
         sb.append("<section id=\"diagnostics\"><h2>Convergence</h2>");
         if (!diag.reasons().isEmpty()) {
             sb.append("<p class=\"flag\">Not converged because:</p><ul>");
-            diag.reasons().stream().limit(40).forEach(x -> sb.append("<li>").append(esc(x)).append("</li>"));
+            diag.reasons().forEach(x -> sb.append("<li>").append(esc(x)).append("</li>"));
             sb.append("</ul>");
+            if (diag.advice() != null) {
+                sb.append("<p id=\"advice\">").append(esc(diag.advice())).append("</p>");
+            }
         }
         List<DiagnosticsSummary.Parameter> slowest = new ArrayList<>(diag.parameters());
         slowest.removeIf(p -> p.essBulk() == null);

@@ -9,8 +9,8 @@ import java.util.List;
  *
  * @param metric          the metric decided on (its key, as in the result)
  * @param unit            the metric's unit, e.g. "EUR per user" or "share of installs"
- * @param outcome         "ship", "keep-control" or "keep-collecting"
- * @param arm             the arm to ship or keep; for keep-collecting, the best choice so far
+ * @param outcome         "ship", "keep-control" or "keep-collecting"; "no-decision" when the fit did not converge
+ * @param arm             the arm to ship or keep; for keep-collecting, the best choice so far; null for no-decision
  * @param statement       the outcome in one plain sentence
  * @param tolerance       the expected loss accepted, in the metric's unit
  * @param toleranceSource "spec" or "default" (1% of the control's posterior mean)

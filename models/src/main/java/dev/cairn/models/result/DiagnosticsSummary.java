@@ -8,7 +8,7 @@ import java.util.List;
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record DiagnosticsSummary(Double maxRhat, Double minEssBulk, Double minEssTail, double thresholdRhat,
                                  double thresholdEssPerChain, List<Parameter> parameters, List<String> reasons,
-                                 List<String> notes) {
+                                 List<String> notes, String advice) {
 
     @JsonInclude(JsonInclude.Include.NON_NULL)
     public record Parameter(String name, Double rhat, Double essBulk, Double essTail, Double mcseMean) {
@@ -26,7 +26,7 @@ public record DiagnosticsSummary(Double maxRhat, Double minEssBulk, Double minEs
                         finite(p.mcseMean())))
                 .toList();
         return new DiagnosticsSummary(finite(r.maxRhat()), finite(r.minEssBulk()), finite(r.minEssTail()),
-                r.thresholds().maxRhat(), r.thresholds().minEssPerChain(), ps, r.reasons(), r.notes());
+                r.thresholds().maxRhat(), r.thresholds().minEssPerChain(), ps, r.reasons(), r.notes(), r.advice());
     }
 
     static Double finite(double v) {

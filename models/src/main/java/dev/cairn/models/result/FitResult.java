@@ -37,6 +37,11 @@ public interface FitResult {
         return null;
     }
 
+    /** {@return the priors the fit used (given or default, with their source), or null} */
+    default PriorsUsed priors() {
+        return null;
+    }
+
     /** {@return the control arm, or null for a model without one} */
     default String control() {
         return null;
