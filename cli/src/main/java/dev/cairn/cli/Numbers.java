@@ -9,21 +9,7 @@ final class Numbers {
 
     /** {@code digits} significant digits, plain notation for moderate magnitudes; "-" when undefined. */
     static String sig(double x, int digits) {
-        if (Double.isNaN(x)) {
-            return "-";
-        }
-        if (Double.isInfinite(x)) {
-            return x > 0 ? "inf" : "-inf";
-        }
-        if (x == 0) {
-            return "0";
-        }
-        double a = Math.abs(x);
-        if (a >= 1e6 || a < 1e-4) {
-            return String.format(Locale.ROOT, "%." + (digits - 1) + "e", x);
-        }
-        int decimals = Math.max(0, digits - 1 - (int) Math.floor(Math.log10(a)));
-        return String.format(Locale.ROOT, "%." + decimals + "f", x);
+        return dev.cairn.models.result.Format.sig(x, digits);
     }
 
     /** Whole number with thousands separators; "-" when undefined. */

@@ -208,9 +208,12 @@ final class ResultPrinter {
         sb.append('\n');
         boolean spend = r.arms().values().iterator().next().arpu() != null;
         int width = Math.max(3, r.arms().keySet().stream().mapToInt(String::length).max().orElse(3));
-        String header = spend ? "%-" + width + "s  %10s  %8s  %-29s  %-29s  %s%n" : "%-" + width + "s  %10s  %8s  %s%n";
+        int money = Math.max(29, dev.cairn.models.result.Format.heading(dev.cairn.models.result.Metric.ARPU, r.currency()).length());
+        String header = spend ? "%-" + width + "s  %10s  %8s  %-" + money + "s  %-29s  %s%n" : "%-" + width + "s  %10s  %8s  %s%n";
         if (spend) {
-            sb.append(String.format(Locale.ROOT, header, "arm", "users", "payers", "ARPU", "payer rate", "ARPPU"));
+            sb.append(String.format(Locale.ROOT, header, "arm", "users", "payers",
+                    dev.cairn.models.result.Format.heading(dev.cairn.models.result.Metric.ARPU, r.currency()), "payer rate",
+                    dev.cairn.models.result.Format.heading(dev.cairn.models.result.Metric.ARPPU, r.currency())));
         } else {
             sb.append(String.format(Locale.ROOT, header, "arm", "users", "payers", "payer rate"));
         }
@@ -233,13 +236,14 @@ final class ResultPrinter {
                     + "a typical segment.\n\n");
         }
         sb.append("Against ").append(r.control()).append(":\n");
-        String row = "  %-" + (width + 10) + "s  %-10s  %-28s  %11s  %14s%n";
+        String row = "  %-" + (width + 10) + "s  %-10s  %-28s  %11s  %s%n";
         sb.append(String.format(Locale.ROOT, row, "arm", "metric", "lift median [lo, hi]", "P(above)", "expected loss"));
         for (Comparison c : r.comparisons()) {
             sb.append(String.format(Locale.ROOT, row, c.arm() + ("typical-segment".equals(c.scope()) ? " (typical)" : ""),
                     label(c.metric()),
                     lift(c),
-                    String.format(Locale.ROOT, "%.3f", c.probAbove()), Numbers.sig(c.expectedLoss(), 3)));
+                    String.format(Locale.ROOT, "%.3f", c.probAbove()), dev.cairn.models.result.Format.loss(
+                            dev.cairn.models.result.Metric.of(c.metric()), c.expectedLoss(), r.currency())));
         }
         if (r.segments() != null) {
             appendSegments(sb, r, width);

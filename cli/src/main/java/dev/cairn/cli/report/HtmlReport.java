@@ -68,7 +68,7 @@ public final class HtmlReport {
         } else if (!r.comparisons().isEmpty()) {
             // a model the report has no sections for: its comparisons as they are
             sb.append("<section><h2>Comparisons</h2>");
-            comparisonTable(sb, r.comparisons());
+            comparisonTable(sb, r.comparisons(), r.currency());
             sb.append("</section>\n");
         }
         priors(sb, r);
@@ -168,7 +168,7 @@ public final class HtmlReport {
         }
         sb.append("</div><table><tr><th>arm</th><th>users</th><th>payers</th>");
         for (Metric metric : metrics) {
-            sb.append("<th>").append(metric.label()).append(" median [lo, hi]</th>");
+            sb.append("<th>").append(esc(dev.cairn.models.result.Format.heading(metric, r.currency()))).append(" median [lo, hi]</th>");
         }
         sb.append("</tr>");
         for (Map.Entry<String, ArmSummary> e : r.arms().entrySet()) {
@@ -176,7 +176,7 @@ public final class HtmlReport {
             sb.append("<tr><td>").append(esc(e.getKey())).append(e.getKey().equals(r.control()) ? " (control)" : "")
                     .append("</td><td>").append(a.users()).append("</td><td>").append(a.payers()).append("</td>");
             for (Metric metric : metrics) {
-                sb.append("<td>").append(interval(a.of(metric))).append("</td>");
+                sb.append("<td>").append(esc(dev.cairn.models.result.Format.interval(metric, a.of(metric)))).append("</td>");
             }
             sb.append("</tr>");
         }
@@ -201,7 +201,8 @@ public final class HtmlReport {
         for (Comparison c : r.comparisons()) {
             sb.append("<tr><td>").append(esc(c.arm())).append("</td><td>").append(label(c.metric())).append("</td><td>")
                     .append(c.scope() == null ? "" : esc(c.scope())).append("</td><td>").append(pct(c.lift()))
-                    .append("</td><td>").append(fmt(c.probAbove(), 3)).append("</td><td>").append(sig(c.expectedLoss()))
+                    .append("</td><td>").append(fmt(c.probAbove(), 3)).append("</td><td>")
+                    .append(esc(dev.cairn.models.result.Format.loss(Metric.of(c.metric()), c.expectedLoss(), r.currency())))
                     .append("</td></tr>");
         }
         sb.append("</table><table><tr><th>P(best)</th>");
@@ -386,7 +387,7 @@ public final class HtmlReport {
         sb.append("</table><p class=\"note\">Drift per install cohort (random-walk sd on the curve's logit or log "
                 + "scale): level ").append(interval(r.drift().get("level"))).append(", slope ")
                 .append(interval(r.drift().get("slope"))).append(".</p>");
-        comparisonTable(sb, r.comparisons());
+        comparisonTable(sb, r.comparisons(), r.currency());
         sb.append("</section>\n");
     }
 
@@ -396,13 +397,14 @@ public final class HtmlReport {
     }
 
     /** The comparisons as a table: arm, metric, lift interval, P(above), expected loss. */
-    private static void comparisonTable(StringBuilder sb, List<Comparison> comparisons) {
+    private static void comparisonTable(StringBuilder sb, List<Comparison> comparisons, String currency) {
         sb.append("<table><tr><th>arm</th><th>metric</th><th>lift median [lo, hi]</th><th>P(above)</th>"
                 + "<th>expected loss</th></tr>");
         for (Comparison c : comparisons) {
             sb.append("<tr><td>").append(esc(c.arm())).append("</td><td>").append(esc(c.metric().toUpperCase(Locale.ROOT)))
                     .append("</td><td>").append(pct(c.lift())).append("</td><td>").append(fmt(c.probAbove(), 3))
-                    .append("</td><td>").append(sig(c.expectedLoss())).append("</td></tr>");
+                    .append("</td><td>").append(esc(dev.cairn.models.result.Format.loss(Metric.of(c.metric()),
+                            c.expectedLoss(), currency))).append("</td></tr>");
         }
         sb.append("</table>");
     }
@@ -467,10 +469,7 @@ public final class HtmlReport {
     }
 
     static String sig(double v) {
-        if (v == 0 || !Double.isFinite(v)) {
-            return String.valueOf(v);
-        }
-        return String.format(Locale.ROOT, "%.4g", v);
+        return dev.cairn.models.result.Format.sig(v, 4);
     }
 
     static String interval(Interval i) {
