@@ -155,4 +155,36 @@ class ReportTest {
                 "the duplicate-id warning: " + warnings.group(1));
         assertTrue(r[1].contains("duplicate"), "the terminal says it too");
     }
+
+    /**
+     * With more segments than a page holds, the chart keeps the largest ones in order of size, the table keeps
+     * every segment (largest first), and the lift axis is in percent.
+     */
+    @Test
+    void segmentChartsStayReadableWithManySegments() throws IOException {
+        Path dir = demo.resolve("many-segments");
+        dev.cairn.models.demo.StudioScaleScenario.write(dir.resolve("cells.csv"), 60, 2, 5);
+        Files.writeString(dir.resolve("spec.json"), """
+                {"model": "segmented-spend", "currency": "EUR", "data": {"path": "cells.csv", "layout": "summary"}, "control": "A"}
+                """);
+        FitOutcome out = Cairn.fit(dir.resolve("spec.json"), FitOptions.DEFAULT);
+        ReportWriter.write(out, "spec.json", dir);
+        String html = Files.readString(dir.resolve(ReportWriter.REPORT), StandardCharsets.UTF_8);
+        Matcher section = Pattern.compile("<section id=\"segments\">(.*?)</section>", Pattern.DOTALL).matcher(html);
+        assertTrue(section.find());
+        String seg = section.group(1);
+        assertTrue(seg.contains("the 40 largest of 60 charted; every one is in the table"), "the cap is stated");
+        assertTrue(seg.contains("lift by segment (%)"), "the lift chart is in percent");
+        Matcher table = Pattern.compile("<table id=\"segment-table\">(.*?)</table>", Pattern.DOTALL).matcher(seg);
+        assertTrue(table.find());
+        Matcher rows = Pattern.compile("<tr><td>([^<]*)</td><td>([\\d,]+)</td>").matcher(table.group(1));
+        List<Long> users = new java.util.ArrayList<>();
+        while (rows.find()) {
+            users.add(Long.parseLong(rows.group(2).replace(",", "")));
+        }
+        assertEquals(60, users.size(), "every segment in the table");
+        for (int i = 1; i < users.size(); i++) {
+            assertTrue(users.get(i) <= users.get(i - 1), "largest first: " + users);
+        }
+    }
 }

@@ -222,6 +222,16 @@ final class Charts {
      */
     static String intervals(String title, String yLabel, List<String> names, double[] lo, double[] mid, double[] hi,
                             double[] raw, String rawLabel, Double reference) {
+        return intervals(title, yLabel, names, lo, mid, hi, raw, rawLabel, reference, null);
+    }
+
+    /**
+     * As above on a fixed value axis {@code range} = {lower, upper} (null: fitted to the data). Raw points
+     * beyond it are drawn at its edge as triangles with their value written beside them, so that a few
+     * extreme raw estimates cannot squash the intervals.
+     */
+    static String intervals(String title, String yLabel, List<String> names, double[] lo, double[] mid, double[] hi,
+                            double[] raw, String rawLabel, Double reference, double[] range) {
         List<String> labels = labels(names);
         title = shorten(title, TITLE);
         YIntervalSeriesCollection data = new YIntervalSeriesCollection();
@@ -240,19 +250,41 @@ final class Charts {
         x.setVerticalTickLabels(labels.size() > 8);
         NumberAxis y = new NumberAxis(yLabel);
         y.setAutoRangeIncludesZero(false);
+        if (range != null) {
+            y.setRange(range[0], range[1]);
+        }
         XYPlot plot = style(new XYPlot(data, x, y, renderer));
         if (raw != null) {
             XYSeriesCollection rawData = new XYSeriesCollection();
             XYSeries r = new XYSeries(rawLabel);
+            XYSeries beyond = new XYSeries(rawLabel + ", beyond the axis (value written)");
             for (int i = 0; i < raw.length; i++) {
-                if (Double.isFinite(raw[i])) {
+                if (!Double.isFinite(raw[i])) {
+                    continue;
+                }
+                if (range != null && (raw[i] < range[0] || raw[i] > range[1])) {
+                    double edge = raw[i] < range[0] ? range[0] : range[1];
+                    beyond.add(i + 0.15, edge);
+                    org.jfree.chart.annotations.XYTextAnnotation text = new org.jfree.chart.annotations.XYTextAnnotation(
+                            dev.cairn.models.result.Format.sig(raw[i], 3), i + 0.45, edge);
+                    text.setFont(new Font("SansSerif", Font.PLAIN, 9));
+                    text.setPaint(colour(1));
+                    text.setTextAnchor(raw[i] < range[0] ? org.jfree.chart.ui.TextAnchor.BOTTOM_LEFT
+                            : org.jfree.chart.ui.TextAnchor.TOP_LEFT);
+                    plot.addAnnotation(text);
+                } else {
                     r.add(i + 0.15, raw[i]);
                 }
             }
             rawData.addSeries(r);
+            rawData.addSeries(beyond);
             XYLineAndShapeRenderer dots = new XYLineAndShapeRenderer(false, true);
             dots.setSeriesPaint(0, colour(1));
             dots.setSeriesShapesFilled(0, false);
+            dots.setSeriesPaint(1, colour(1));
+            dots.setSeriesShape(1, new java.awt.Polygon(new int[] {-4, 4, 0}, new int[] {3, 3, -4}, 3));
+            dots.setSeriesShapesFilled(1, true);
+            dots.setSeriesVisibleInLegend(1, beyond.getItemCount() > 0);
             plot.setDataset(1, rawData);
             plot.setRenderer(1, dots);
         }

@@ -234,8 +234,15 @@ public final class HtmlReport {
             sb.append("</div></section>\n");
         }
         if (segmented) {
+            List<Map.Entry<String, SegmentSummary>> bySize = new ArrayList<>(r.segments().entrySet());
+            bySize.sort(Comparator.comparingLong((Map.Entry<String, SegmentSummary> e) -> -e.getValue().users())
+                    .thenComparing(Map.Entry::getKey));
+            boolean capped = bySize.size() > SEGMENTS_CHARTED;
             sb.append("<section id=\"segments\"><h2>Segments: pooled lift beside each segment's own data</h2>"
-                    + "<p class=\"note\">Intervals: pooled estimates; hollow points: the raw lift from the segment alone. "
+                    + "<p class=\"note\">Segments by size, largest first")
+                    .append(capped ? " (the " + SEGMENTS_CHARTED + " largest of " + bySize.size() + " charted; every one is in the table)" : "")
+                    .append(". Intervals: pooled estimates; hollow points: the raw lift from the segment alone; the axis "
+                    + "fits the pooled intervals, and a raw lift beyond it is a triangle at the edge with its value written. "
                     + "Small segments move toward the overall lift (shrinkage).</p><div class=\"grid\">");
             for (String a : arms) {
                 if (a.equals(r.control())) {
@@ -243,12 +250,12 @@ public final class HtmlReport {
                 }
                 List<String> labels = new ArrayList<>();
                 List<double[]> rows = new ArrayList<>();
-                for (Map.Entry<String, SegmentSummary> e : r.segments().entrySet()) {
+                for (Map.Entry<String, SegmentSummary> e : bySize.subList(0, Math.min(SEGMENTS_CHARTED, bySize.size()))) {
                     for (Comparison c : e.getValue().comparisons()) {
                         if (c.arm().equals(a) && c.metric().equals(metrics.get(0).key()) && c.lift() != null) {
                             labels.add(e.getKey());
-                            rows.add(new double[] {c.lift().lo(), c.lift().median(), c.lift().hi(),
-                                c.rawLift() == null ? Double.NaN : c.rawLift()});
+                            rows.add(new double[] {100 * c.lift().lo(), 100 * c.lift().median(), 100 * c.lift().hi(),
+                                c.rawLift() == null ? Double.NaN : 100 * c.rawLift()});
                         }
                     }
                 }
@@ -256,8 +263,11 @@ public final class HtmlReport {
                 double[] mid = rows.stream().mapToDouble(x -> x[1]).toArray();
                 double[] hi = rows.stream().mapToDouble(x -> x[2]).toArray();
                 double[] raw = rows.stream().mapToDouble(x -> x[3]).toArray();
-                sb.append(Charts.intervals(a + ": " + metrics.get(0).label() + " lift by segment", "lift", labels, lo, mid, hi,
-                        raw, "raw (segment alone)", 0.0));
+                double low = Math.min(0, java.util.Arrays.stream(lo).min().orElse(0));
+                double high = Math.max(0, java.util.Arrays.stream(hi).max().orElse(0));
+                double pad = 0.08 * (high - low + 1e-9);
+                sb.append(Charts.intervals(a + ": " + metrics.get(0).label() + " lift by segment (%)", "lift (%)", labels, lo, mid,
+                        hi, raw, "raw (segment alone)", 0.0, new double[] {low - pad, high + pad}));
             }
             sb.append("</div>");
             segmentTable(sb, r, arms, metrics.get(0));
@@ -295,6 +305,9 @@ public final class HtmlReport {
         }
         sb.append("</table>");
     }
+
+    /** Segments charted at most (a page's worth); the table beside the charts lists every one. */
+    static final int SEGMENTS_CHARTED = 40;
 
     private static void pooledSections(StringBuilder sb, PooledResult r, Draws d) {
         List<String> labels = new ArrayList<>(r.effects().keySet());
@@ -340,6 +353,16 @@ public final class HtmlReport {
                 .append("% band; solid up to the last day any cohort reached, dashed beyond (projected); points: observed.</p>")
                 .append("<div class=\"grid\">").append(Charts.curves("Retention by day", arms, bands, observed, last));
         int drift = r.days().contains(7) ? 7 : r.days().get(0);
+        // every arm's drift panel on one axis, so that the panels compare at a glance
+        double low = Double.POSITIVE_INFINITY, high = Double.NEGATIVE_INFINITY;
+        for (dev.cairn.models.result.CohortRow c : r.cohorts()) {
+            Interval i = c.day("d" + drift);
+            if (i != null) {
+                low = Math.min(low, 100 * i.lo());
+                high = Math.max(high, 100 * i.hi());
+            }
+        }
+        double pad = 0.05 * (high - low + 1e-9);
         for (String a : arms) {
             List<String> labels = new ArrayList<>();
             List<Interval> values = new ArrayList<>();
@@ -349,9 +372,11 @@ public final class HtmlReport {
                     values.add(c.day("d" + drift));
                 }
             }
-            sb.append(Charts.intervals(a + ": D" + drift + " by install cohort (drift)", "D" + drift, labels,
-                    values.stream().mapToDouble(Interval::lo).toArray(), values.stream().mapToDouble(Interval::median).toArray(),
-                    values.stream().mapToDouble(Interval::hi).toArray(), null, null, null));
+            sb.append(Charts.intervals(a + ": D" + drift + " by install cohort (drift)", "D" + drift + " (%)", labels,
+                    values.stream().mapToDouble(i -> 100 * i.lo()).toArray(),
+                    values.stream().mapToDouble(i -> 100 * i.median()).toArray(),
+                    values.stream().mapToDouble(i -> 100 * i.hi()).toArray(), null, null, null,
+                    Double.isFinite(low) ? new double[] {low - pad, high + pad} : null));
         }
         if (r.ltv() != null) {
             List<String> labels = new ArrayList<>();
@@ -360,7 +385,8 @@ public final class HtmlReport {
                 labels.add(a);
                 values.add(r.ltv().arms().get(a));
             }
-            sb.append(Charts.intervals("LTV over " + r.ltv().horizon() + " days", "LTV", labels,
+            sb.append(Charts.intervals("LTV over " + r.ltv().horizon() + " days", "LTV ("
+                    + (r.currency() != null ? r.currency() : "currency units") + " per install)", labels,
                     values.stream().mapToDouble(Interval::lo).toArray(), values.stream().mapToDouble(Interval::median).toArray(),
                     values.stream().mapToDouble(Interval::hi).toArray(), null, null, null));
         }
