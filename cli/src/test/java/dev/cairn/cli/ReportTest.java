@@ -83,6 +83,15 @@ class ReportTest {
         assertEquals(ResultWriter.json(out.result()), new String(before, StandardCharsets.UTF_8));
     }
 
+    /** Headless Chromium with no network or first-run chatter, its own profile under the demo folder. */
+    private static Process chromium(Path chromium, String profile, boolean mergeErrors, String... args) throws IOException {
+        List<String> command = new java.util.ArrayList<>(List.of(chromium.toString(), "--headless", "--no-sandbox",
+                "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking",
+                "--disable-component-update", "--disable-sync", "--user-data-dir=" + demo.resolve(profile)));
+        command.addAll(List.of(args));
+        return new ProcessBuilder(command).redirectErrorStream(mergeErrors).start();
+    }
+
     /**
      * End to end in headless Chromium (installed by .ci/run from the distribution's packages): the page
      * loads without console errors and renders a screenshot that is not blank.
@@ -94,11 +103,8 @@ class ReportTest {
                 + "distribution's packages); skipping the browser test");
         Path shot = demo.resolve("shot.png");
         Path report = demo.resolve("store-layout-by-region").resolve(ReportWriter.REPORT);
-        Process p = new ProcessBuilder(chromium.toString(), "--headless", "--no-sandbox", "--disable-gpu",
-                "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update",
-                "--disable-sync", "--user-data-dir=" + demo.resolve("chromium-profile"), "--hide-scrollbars",
-                "--enable-logging=stderr", "--v=0", "--window-size=1280,1600", "--screenshot=" + shot,
-                report.toUri().toString()).redirectErrorStream(true).start();
+        Process p = chromium(chromium, "chromium-profile", true, "--hide-scrollbars", "--enable-logging=stderr", "--v=0",
+                "--window-size=1280,1600", "--screenshot=" + shot, report.toUri().toString());
         String log = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
         assertTrue(p.waitFor(120, TimeUnit.SECONDS), "chromium finished");
         assertTrue(Files.size(shot) > 10_000, "a screenshot was written: " + log);
@@ -135,10 +141,8 @@ class ReportTest {
                 """);
         String[] r = MainTest.run("fit", dir.resolve("spec.json").toString(), "--out", dir.resolve("out").toString());
         assertEquals("0", r[0], r[2]);
-        Process p = new ProcessBuilder(chromium.toString(), "--headless", "--no-sandbox", "--disable-gpu",
-                "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update",
-                "--disable-sync", "--user-data-dir=" + demo.resolve("chromium-profile-2"), "--dump-dom",
-                dir.resolve("out").resolve(ReportWriter.REPORT).toUri().toString()).redirectErrorStream(false).start();
+        Process p = chromium(chromium, "chromium-profile-2", false, "--dump-dom",
+                dir.resolve("out").resolve(ReportWriter.REPORT).toUri().toString());
         String dom = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
         assertTrue(p.waitFor(120, TimeUnit.SECONDS), "chromium finished");
         int main = dom.indexOf("<main>");

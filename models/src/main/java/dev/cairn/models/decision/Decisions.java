@@ -78,13 +78,7 @@ public final class Decisions {
         long[] best = new long[arms.size()];
         int n = values[0].length;
         for (int i = 0; i < n; i++) {
-            int argmax = 0;
-            for (int k = 1; k < arms.size(); k++) {
-                if (values[k][i] > values[argmax][i]) {
-                    argmax = k;
-                }
-            }
-            best[argmax]++;
+            best[bestIn(values, i)]++;
         }
         Map<String, Double> m = new LinkedHashMap<>();
         for (int k = 0; k < arms.size(); k++) {
@@ -122,6 +116,17 @@ public final class Decisions {
         }).toList());
     }
 
+    /** The arm with the highest value in draw i (a tie goes to the first). */
+    private static int bestIn(double[][] values, int i) {
+        int argmax = 0;
+        for (int k = 1; k < values.length; k++) {
+            if (values[k][i] > values[argmax][i]) {
+                argmax = k;
+            }
+        }
+        return argmax;
+    }
+
     /** The default tolerance: this share of the control's posterior mean of the metric. */
     public static final double DEFAULT_RELATIVE_TOLERANCE = 0.01;
 
@@ -154,12 +159,7 @@ public final class Decisions {
         double[] loss = new double[arms.size()];
         long[] best = new long[arms.size()];
         for (int i = 0; i < n; i++) {
-            int argmax = 0;
-            for (int k = 1; k < arms.size(); k++) {
-                if (values[k][i] > values[argmax][i]) {
-                    argmax = k;
-                }
-            }
+            int argmax = bestIn(values, i);
             best[argmax]++;
             for (int k = 0; k < arms.size(); k++) {
                 loss[k] += values[argmax][i] - values[k][i];

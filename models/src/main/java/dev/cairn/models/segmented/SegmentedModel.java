@@ -41,10 +41,7 @@ public final class SegmentedModel implements Model {
             throw new InputException(origin + ": /priors: segmented-spend uses its own documented hierarchical "
                     + "priors; remove the spend priors");
         }
-        if (p.mu() != null || p.tau() != null) {
-            throw new InputException(origin + ": /priors/" + (p.mu() != null ? "mu" : "tau")
-                    + ": belongs to model 'pooled-effects', not 'segmented-spend'");
-        }
+        p.refusePooledPriors(origin, name());
     }
 
     @Override

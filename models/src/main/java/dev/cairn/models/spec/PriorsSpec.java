@@ -57,4 +57,18 @@ public record PriorsSpec(BetaPrior payerRate, NigPrior logSpend, NormalPrior log
     public boolean nonConjugate() {
         return logSpendMean != null || logSpendSd != null;
     }
+
+    /**
+     * Refuses the pooled-effects priors (mu, tau) in another model's spec.
+     *
+     * @param origin the spec's name, for the message
+     * @param model  the spec's model
+     * @throws dev.cairn.models.InputException naming the prior and the model it belongs to
+     */
+    public void refusePooledPriors(String origin, String model) {
+        if (mu != null || tau != null) {
+            throw new dev.cairn.models.InputException(origin + ": /priors/" + (mu != null ? "mu" : "tau")
+                    + ": belongs to model 'pooled-effects', not '" + model + "'");
+        }
+    }
 }

@@ -24,10 +24,7 @@ public final class SpendModel implements Model {
     @Override
     public void check(Spec spec, String origin) {
         PriorsSpec p = spec.priorsOrEmpty();
-        if (p.mu() != null || p.tau() != null) {
-            throw new InputException(origin + ": /priors/" + (p.mu() != null ? "mu" : "tau")
-                    + ": belongs to model 'pooled-effects', not 'spend'");
-        }
+        p.refusePooledPriors(origin, name());
         if (p.logSpend() != null && p.nonConjugate()) {
             throw new InputException(origin + ": /priors: give either 'logSpend' (conjugate) or 'logSpendMean' and "
                     + "'logSpendSd' (non-conjugate), not both");
