@@ -162,9 +162,11 @@ public final class HtmlReport {
         for (Metric metric : metrics) {
             List<double[]> draws = new ArrayList<>();
             for (String a : arms) {
-                draws.add(d.pooled(metric.column(segmented ? "population/" + a : a)));
+                double[] values = d.pooled(metric.column(segmented ? "population/" + a : a));
+                // shares are charted as percentages, as the heading says
+                draws.add(metric.unit() == Metric.Unit.SHARE ? java.util.Arrays.stream(values).map(v -> 100 * v).toArray() : values);
             }
-            sb.append(Charts.histograms("Posterior of " + metric.label(), metric.label(), arms, draws, null));
+            sb.append(Charts.histograms("Posterior of " + metric.label(), dev.cairn.models.result.Format.heading(metric, r.currency()), arms, draws, null));
         }
         sb.append("</div><table><tr><th>arm</th><th>users</th><th>payers</th>");
         for (Metric metric : metrics) {
