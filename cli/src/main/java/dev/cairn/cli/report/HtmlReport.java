@@ -176,7 +176,8 @@ public final class HtmlReport {
         for (Map.Entry<String, ArmSummary> e : r.arms().entrySet()) {
             ArmSummary a = e.getValue();
             sb.append("<tr><td>").append(esc(e.getKey())).append(e.getKey().equals(r.control()) ? " (control)" : "")
-                    .append("</td><td>").append(a.users()).append("</td><td>").append(a.payers()).append("</td>");
+                    .append("</td><td>").append(String.format(Locale.ROOT, "%,d", a.users())).append("</td><td>")
+                    .append(String.format(Locale.ROOT, "%,d", a.payers())).append("</td>");
             for (Metric metric : metrics) {
                 sb.append("<td>").append(esc(dev.cairn.models.result.Format.interval(metric, a.of(metric)))).append("</td>");
             }
