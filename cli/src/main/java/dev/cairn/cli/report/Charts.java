@@ -1,5 +1,7 @@
 package dev.cairn.cli.report;
 
+import dev.cairn.models.result.Format;
+
 import java.awt.BasicStroke;
 import java.awt.Color;
 import java.awt.Font;
@@ -37,6 +39,25 @@ final class Charts {
 
     static Color colour(int i) {
         return PALETTE[i % PALETTE.length];
+    }
+
+    /** Pooled estimates and raw (own-data) estimates: colours of their own, never an arm's. */
+    static final Color POOLED = INK, RAW = new Color(0x9a7b4f);
+
+    /** The legend: the plot's series and, after them, the markers drawn on it, so every mark is named. */
+    private static void legendWith(XYPlot plot, org.jfree.chart.LegendItem... extra) {
+        org.jfree.chart.LegendItemCollection items = new org.jfree.chart.LegendItemCollection();
+        items.addAll(plot.getLegendItems());
+        for (org.jfree.chart.LegendItem e : extra) {
+            items.add(e);
+        }
+        plot.setFixedLegendItems(items);
+    }
+
+    /** A legend entry drawn as a line. */
+    private static org.jfree.chart.LegendItem line(String label, java.awt.Paint paint, java.awt.Stroke stroke) {
+        return new org.jfree.chart.LegendItem(label, null, null, null, new java.awt.geom.Line2D.Double(-7, 0, 7, 0),
+                stroke, paint);
     }
 
     static String svg(JFreeChart chart, int width, int height) {
@@ -115,14 +136,15 @@ final class Charts {
         NumberAxis y = new NumberAxis("draws");
         XYPlot plot = style(new XYPlot(data, x, y, renderer));
         plot.setForegroundAlpha(0.8f);
+        BasicStroke dashed = new BasicStroke(1.2f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER, 10, new float[] {4, 3}, 0);
         if (markers != null) {
             for (double m : markers) {
-                ValueMarker vm = new ValueMarker(m, INK, new BasicStroke(1.2f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER,
-                        10, new float[] {4, 3}, 0));
-                plot.addDomainMarker(vm);
+                plot.addDomainMarker(new ValueMarker(m, INK, dashed));
             }
+            legendWith(plot, line("observed value", INK, dashed));
         }
-        return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, labels.size() > 1), WIDTH, HEIGHT);
+        return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, labels.size() > 1 || markers != null),
+                WIDTH, HEIGHT);
     }
 
     /** A lift distribution with its credible interval shaded and zero marked. */
@@ -147,7 +169,9 @@ final class Charts {
         IntervalMarker band = new IntervalMarker(lo, hi, new Color(0xd07a2c), new BasicStroke(1f), null, null, 0.18f);
         plot.addDomainMarker(band, org.jfree.chart.ui.Layer.BACKGROUND);
         plot.addDomainMarker(new ValueMarker(0, PALETTE[4], new BasicStroke(1.5f)));
-        svg = svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, false), WIDTH, HEIGHT);
+        legendWith(plot, new org.jfree.chart.LegendItem("credible interval", new Color(0xd07a2c, false)),
+                line("no change (0)", PALETTE[4], new BasicStroke(1.5f)));
+        svg = svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, true), WIDTH, HEIGHT);
         return svg;
     }
 
@@ -242,8 +266,8 @@ final class Charts {
         data.addSeries(s);
         XYErrorRenderer renderer = new XYErrorRenderer();
         renderer.setDrawXError(false);
-        renderer.setErrorPaint(colour(0));
-        renderer.setSeriesPaint(0, colour(0));
+        renderer.setErrorPaint(POOLED);
+        renderer.setSeriesPaint(0, POOLED);
         renderer.setErrorStroke(new BasicStroke(2f));
         SymbolAxis x = new SymbolAxis(null, labels.toArray(new String[0]));
         x.setTickLabelFont(new Font("SansSerif", Font.PLAIN, 10));
@@ -268,7 +292,7 @@ final class Charts {
                     org.jfree.chart.annotations.XYTextAnnotation text = new org.jfree.chart.annotations.XYTextAnnotation(
                             dev.cairn.models.result.Format.sig(raw[i], 3), i + 0.45, edge);
                     text.setFont(new Font("SansSerif", Font.PLAIN, 9));
-                    text.setPaint(colour(1));
+                    text.setPaint(RAW);
                     text.setTextAnchor(raw[i] < range[0] ? org.jfree.chart.ui.TextAnchor.BOTTOM_LEFT
                             : org.jfree.chart.ui.TextAnchor.TOP_LEFT);
                     plot.addAnnotation(text);
@@ -279,9 +303,9 @@ final class Charts {
             rawData.addSeries(r);
             rawData.addSeries(beyond);
             XYLineAndShapeRenderer dots = new XYLineAndShapeRenderer(false, true);
-            dots.setSeriesPaint(0, colour(1));
+            dots.setSeriesPaint(0, RAW);
             dots.setSeriesShapesFilled(0, false);
-            dots.setSeriesPaint(1, colour(1));
+            dots.setSeriesPaint(1, RAW);
             dots.setSeriesShape(1, new java.awt.Polygon(new int[] {-4, 4, 0}, new int[] {3, 3, -4}, 3));
             dots.setSeriesShapesFilled(1, true);
             dots.setSeriesVisibleInLegend(1, beyond.getItemCount() > 0);
@@ -290,8 +314,9 @@ final class Charts {
         }
         if (reference != null) {
             plot.addRangeMarker(new ValueMarker(reference, PALETTE[4], new BasicStroke(1f)));
+            legendWith(plot, line("no change (" + Format.sig(reference, 3) + ")", PALETTE[4], new BasicStroke(1f)));
         }
-        return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, raw != null), WIDTH,
+        return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, raw != null || reference != null), WIDTH,
                 labels.size() > 8 ? 340 : HEIGHT);
     }
 
