@@ -43,6 +43,8 @@ final class Charts {
 
     /** Pooled estimates and raw (own-data) estimates: colours of their own, never an arm's. */
     static final Color POOLED = INK, RAW = new Color(0x9a7b4f);
+    /** A single distribution that is not one arm's (a replicated statistic, a hyperparameter). */
+    static final Color NEUTRAL = new Color(0x7d8b96);
 
     /** The legend: the plot's series and, after them, the markers drawn on it, so every mark is named. */
     private static void legendWith(XYPlot plot, org.jfree.chart.LegendItem... extra) {
@@ -128,7 +130,8 @@ final class Charts {
         renderer.setShadowVisible(false);
         renderer.setDrawBarOutline(false);
         for (int i = 0; i < labels.size(); i++) {
-            Color c = colour(i);
+            // arms keep their colour across the report; a lone distribution is not an arm
+            Color c = labels.size() == 1 ? NEUTRAL : colour(i);
             renderer.setSeriesPaint(i, new Color(c.getRed(), c.getGreen(), c.getBlue(), 140));
         }
         NumberAxis x = new NumberAxis(xLabel);
@@ -161,7 +164,7 @@ final class Charts {
         XYBarRenderer renderer = new XYBarRenderer();
         renderer.setBarPainter(new StandardXYBarPainter());
         renderer.setShadowVisible(false);
-        renderer.setSeriesPaint(0, colour(0));
+        renderer.setSeriesPaint(0, POOLED); // a lift estimate, as the pooled intervals of the segment charts
         NumberAxis x = new NumberAxis("lift (arm / control - 1)");
         x.setAutoRangeIncludesZero(true);
         x.setNumberFormatOverride(new java.text.DecimalFormat("+0.#%;-0.#%"));
