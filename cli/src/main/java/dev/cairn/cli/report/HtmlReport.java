@@ -121,7 +121,7 @@ public final class HtmlReport {
         for (Metric metric : metrics) {
             List<double[]> draws = new ArrayList<>();
             for (String a : arms) {
-                double[] values = d.pooled(metric.column(segmented ? "population/" + a : a));
+                double[] values = d.pooled(segmented ? metric.column(Metric.POPULATION, a) : metric.column(a));
                 // shares are charted as percentages, as the heading says
                 draws.add(metric.unit() == Metric.Unit.SHARE ? java.util.Arrays.stream(values).map(v -> 100 * v).toArray() : values);
             }
@@ -149,11 +149,9 @@ public final class HtmlReport {
             if (!c.metric().equals(metrics.get(0).key()) || "typical-segment".equals(c.scope()) || c.lift() == null) {
                 continue;
             }
-            String armKey = segmented ? "population/" + c.arm() : c.arm();
-            String controlKey = segmented ? "population/" + c.control() : c.control();
             Metric metric = Metric.of(c.metric());
-            double[] x = d.pooled(metric.column(armKey));
-            double[] base = d.pooled(metric.column(controlKey));
+            double[] x = d.pooled(segmented ? metric.column(Metric.POPULATION, c.arm()) : metric.column(c.arm()));
+            double[] base = d.pooled(segmented ? metric.column(Metric.POPULATION, c.control()) : metric.column(c.control()));
             double[] lift = dev.cairn.models.decision.Decisions.liftDraws(x, base);
             sb.append(Charts.lift(String.format(Locale.ROOT, "%s %s lift: P(above) %.3f", c.arm(), label(c.metric()),
                     c.probAbove()), lift, c.lift().lo(), c.lift().hi()));

@@ -78,6 +78,20 @@ public record Metric(String key, String label, Unit unit) {
         return key + "[" + armOrScope + "]";
     }
 
+    /** The scope of segmented-spend's population quantities (segments weighted by their users). */
+    public static final String POPULATION = "population";
+
+    /**
+     * The draw column of this metric for an arm within a scope (segmented-spend): {@code key[scope/arm]}.
+     *
+     * @param scope {@link #POPULATION}, "typical" or a segment
+     * @param arm   the arm
+     * @return the column name
+     */
+    public String column(String scope, String arm) {
+        return column(scope + "/" + arm);
+    }
+
     /**
      * The unit of this metric's values, for people.
      *

@@ -22,13 +22,13 @@ import java.util.List;
  */
 final class SegmentedOutputs {
     static final String TYPICAL = "typical";
-    static final String POPULATION = "population";
+    static final String POPULATION = dev.cairn.models.result.Metric.POPULATION;
 
     private SegmentedOutputs() {
     }
 
     static String cell(String quantity, String segment, String arm) {
-        return quantity + "[" + segment + "/" + arm + "]";
+        return dev.cairn.models.result.Metric.of(quantity).column(segment, arm);
     }
 
     static List<String> names(SegmentedCells cells) {
