@@ -17,8 +17,10 @@ package dev.cairn.diagnostics;
  * rho_0 is counted once (tau = 2, ESS = MN/2), as the reference implementation does.
  */
 public final class Ess {
-    /** Lags summed directly before the FFT is used: enough for independent draws nearly always. */
+    /** Lags summed directly first: enough for independent draws most of the time. */
     static final int DIRECT_LAGS = 8;
+    /** Lags summed directly next, before the FFT: enough for well-mixing chains nearly always. */
+    static final int MORE_DIRECT_LAGS = 40;
 
     private Ess() {
     }
@@ -39,10 +41,14 @@ public final class Ess {
             return Double.NaN;
         }
         // Independent and well-mixing draws truncate within a few lags: those are summed directly, O(N) a
-        // lag. A chain that needs more goes to the FFT, where zero padding to L makes lags 0..L - N exact:
+        // lag, first 8 and then 40 of them (a truncation by chance beyond lag 8 is common for independent
+        // draws, beyond lag 40 rare). A chain that needs more goes to the FFT, where zero padding to L makes lags 0..L - N exact:
         // first the shortest power of two above N + 16, then 1.25 N, then full padding. Every stage gives
         // the same autocovariances at the lags it covers.
         double ess = of(chains, Autocovariance.direct(chains, Math.min(n, DIRECT_LAGS)));
+        if (Double.isNaN(ess) && n > DIRECT_LAGS) {
+            ess = of(chains, Autocovariance.direct(chains, Math.min(n, MORE_DIRECT_LAGS)));
+        }
         int shortest = Integer.highestOneBit(n + 16) << 1;
         if (Double.isNaN(ess)) {
             ess = of(chains, Autocovariance.of(chains, shortest));

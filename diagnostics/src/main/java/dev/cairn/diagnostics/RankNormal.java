@@ -1,7 +1,5 @@
 package dev.cairn.diagnostics;
 
-import java.util.Map;
-import java.util.concurrent.ConcurrentHashMap;
 import org.apache.commons.math3.special.Erf;
 
 /**
@@ -11,8 +9,12 @@ import org.apache.commons.math3.special.Erf;
  * whatever the tails, so R-hat and ESS computed on them work for any distribution.
  */
 final class RankNormal {
-    /** z for rank r is table[2r]: ranks are integers or, with ties, halves. Cached per S (read-only). */
-    private static final Map<Integer, double[]> TABLES = new ConcurrentHashMap<>();
+    /**
+     * z for rank r is table[2r]: ranks are integers or, with ties, halves. The table of the last S is kept
+     * (read-only; a fit diagnoses thousands of quantities of one length, so one entry is enough, and a
+     * volatile field costs nothing to read where a map's bookkeeping showed in profiles).
+     */
+    private static volatile double[] cached = new double[1];
 
     private RankNormal() {
     }
@@ -21,10 +23,11 @@ final class RankNormal {
     static Flat of(Flat draws, int[] order) {
         double[] pooled = draws.values();
         int total = pooled.length;
-        if (TABLES.size() > 16) {
-            TABLES.clear(); // keep the cache small; a table is cheap to rebuild
+        double[] table = cached;
+        if (table.length != 2 * total + 1) {
+            table = table(total);
+            cached = table;
         }
-        double[] table = TABLES.computeIfAbsent(total, RankNormal::table);
         int[] twice = Ranking.twiceAverageRanks(pooled, order);
         double[] z = new double[total];
         for (int i = 0; i < total; i++) {

@@ -107,6 +107,9 @@ final class Ranking {
             for (long k : from) {
                 count[(int) ((k >>> shift) & digitMask)]++;
             }
+            if (count[(int) ((from[0] >>> shift) & digitMask)] == from.length) {
+                continue; // every key has this digit: the pass would not move anything
+            }
             int position = 0;
             for (int d = 0; d < count.length; d++) {
                 int c = count[d];

@@ -26,11 +26,26 @@ public final class FitSupport {
      * @return the settings
      */
     public static RunSettings runSettings(Spec spec, FitOptions options, boolean exact) {
+        return runSettings(spec, options, exact, spec.samplerOrDefault().warmup());
+    }
+
+    /**
+     * The same with the sampler's own default warmup where the spec gives none.
+     *
+     * @param spec          the spec
+     * @param options       the caller's options (threads)
+     * @param exact         whether the draws are exact (no warmup, no thinning)
+     * @param defaultWarmup the warmup when the spec's sampler block gives none, >= 0
+     * @return the settings
+     */
+    public static RunSettings runSettings(Spec spec, FitOptions options, boolean exact, int defaultWarmup) {
         SamplerSpec s = spec.samplerOrDefault();
+        boolean given = spec.sampler() != null && spec.sampler().warmup() != null;
         int threads = options.threads() != null ? options.threads()
                 : s.threads() != null ? s.threads()
                 : Math.max(1, Math.min(s.chains(), Runtime.getRuntime().availableProcessors()));
-        return new RunSettings(s.chains(), exact ? 0 : s.warmup(), s.draws(), exact ? 1 : s.thin(), s.seed(), threads);
+        return new RunSettings(s.chains(), exact ? 0 : given ? s.warmup() : defaultWarmup, s.draws(),
+                exact ? 1 : s.thin(), s.seed(), threads);
     }
 
     /**

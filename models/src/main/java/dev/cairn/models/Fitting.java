@@ -52,6 +52,20 @@ public final class Fitting {
     }
 
     /**
+     * The run settings of a sampler that needs a different warmup by default than the spec's default
+     * (computed once; a warmup the spec gives wins).
+     *
+     * @param defaultWarmup the sampler's own default warmup, >= 0
+     * @return chains, warmup, draws, thin, seed, threads
+     */
+    public RunSettings settingsWithWarmup(int defaultWarmup) {
+        if (settings == null) {
+            settings = FitSupport.runSettings(spec, options, false, defaultWarmup);
+        }
+        return settings;
+    }
+
+    /**
      * Diagnoses the draws against the spec's convergence thresholds (kept for {@link #warnings} and
      * {@link #summary}).
      *

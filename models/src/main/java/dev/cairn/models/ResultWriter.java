@@ -67,7 +67,7 @@ public final class ResultWriter {
         try {
             Files.createDirectories(dir);
             atomically(dir.resolve(RESULT), w -> w.write(json(outcome.result())));
-            atomically(dir.resolve(DRAWS), w -> DrawsCsv.write(outcome.draws(), w));
+            atomicallyBytes(dir.resolve(DRAWS), out -> DrawsCsv.write(outcome.draws(), out));
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
@@ -81,13 +81,22 @@ public final class ResultWriter {
      * @throws IOException when writing or renaming fails (the temporary file is removed)
      */
     public static void atomically(Path target, TextAction action) throws IOException {
+        atomicallyBytes(target, out -> {
+            Writer w = new java.io.BufferedWriter(new java.io.OutputStreamWriter(out, StandardCharsets.UTF_8));
+            action.write(w);
+            w.flush();
+        });
+    }
+
+    /** The same as {@link #atomically} for bytes (through a 1 MiB buffer). */
+    private static void atomicallyBytes(Path target, ByteAction action) throws IOException {
         // A sibling with a random suffix, created with the default permissions (not the owner-only ones of a
         // temporary file), so the renamed file reads like any other the user writes.
         Path tmp = target.resolveSibling("." + target.getFileName() + "." + Long.toHexString(System.nanoTime())
                 + Long.toHexString(Double.doubleToLongBits(Math.random())) + ".tmp");
         try {
-            try (Writer w = Files.newBufferedWriter(tmp, StandardCharsets.UTF_8)) {
-                action.write(w);
+            try (java.io.OutputStream out = new java.io.BufferedOutputStream(Files.newOutputStream(tmp), 1 << 20)) {
+                action.write(out);
             }
             try {
                 Files.move(tmp, target, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
@@ -97,6 +106,11 @@ public final class ResultWriter {
         } finally {
             Files.deleteIfExists(tmp);
         }
+    }
+
+    @FunctionalInterface
+    private interface ByteAction {
+        void write(java.io.OutputStream out) throws IOException;
     }
 
     @FunctionalInterface

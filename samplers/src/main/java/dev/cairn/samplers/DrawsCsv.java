@@ -10,6 +10,7 @@ import java.util.Iterator;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import com.fasterxml.jackson.core.io.NumberOutput;
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVParser;
 import org.apache.commons.csv.CSVRecord;
@@ -18,8 +19,10 @@ import org.apache.commons.csv.CSVRecord;
  * The draws text format of the command-line contract: RFC 4180 CSV (Apache Commons CSV does the quoting
  * and parsing) with LF line ends, a header {@code chain,iteration,<name>...}, then one row per draw with
  * 1-based chain and iteration, rows grouped by chain. A name holding a comma, a quote or a line break is
- * quoted, so any arm or segment name survives the round trip. Values are written with
- * {@link Double#toString(double)}, which reads back to the identical double.
+ * quoted, so any arm or segment name survives the round trip. Values are written as the shortest decimal
+ * that reads back to the identical double (Giulietti's Schubfach algorithm, 2020, as jackson-core ships
+ * it; the same text as {@link Double#toString(double)} from Java 19 on, and two to three times faster
+ * than Java 17's, which matters at millions of values).
  *
  * <p>Works on {@link Reader}/{@link Writer} only; opening files is the caller's business. {@link Rows}
  * reads row by row, for files too large to hold (see {@link DrawsFile}).
@@ -84,12 +87,73 @@ public final class DrawsCsv {
         }
     }
 
+    /**
+     * Writes draws as UTF-8 bytes, the same text as {@link #write(Draws, Writer)}: the header encoded from its
+     * names, the rows (numbers only, so ASCII) built as bytes directly, which saves a character encoder's pass
+     * over hundreds of megabytes in a large fit.
+     *
+     * @param draws the draws
+     * @param out   where the bytes go (flushed, not closed)
+     * @throws UncheckedIOException when writing fails
+     */
+    public static void write(Draws draws, java.io.OutputStream out) {
+        try {
+            List<String> header = new ArrayList<>(draws.names().size() + 2);
+            header.add("chain");
+            header.add("iteration");
+            header.addAll(draws.names());
+            out.write((FORMAT.format(header.toArray()) + "\n").getBytes(java.nio.charset.StandardCharsets.UTF_8));
+            int rows = draws.chains() * draws.iterations();
+            int batch = Math.max(1, Math.min(256, 2_000_000 / Math.max(1, draws.names().size())));
+            for (int first = 0; first < rows; first += batch) {
+                int from = first, to = Math.min(rows, first + batch);
+                byte[][] bytes = java.util.stream.IntStream.range(from, to).parallel()
+                        .mapToObj(r -> rowBytes(draws, r / draws.iterations(), r % draws.iterations()))
+                        .toArray(byte[][]::new);
+                for (byte[] line : bytes) {
+                    out.write(line);
+                }
+            }
+            out.flush();
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    private static byte[] rowBytes(Draws draws, int chain, int iteration) {
+        int k = draws.names().size();
+        byte[] buffer = new byte[26 * (k + 2)];
+        int at = ascii(Integer.toString(chain + 1), buffer, 0);
+        buffer[at++] = ',';
+        at = ascii(Integer.toString(iteration + 1), buffer, at);
+        for (int j = 0; j < k; j++) {
+            if (at + 26 > buffer.length) {
+                buffer = java.util.Arrays.copyOf(buffer, buffer.length * 2);
+            }
+            buffer[at++] = ',';
+            at = ascii(NumberOutput.toString(draws.value(chain, j, iteration), true), buffer, at);
+        }
+        if (at + 1 > buffer.length) {
+            buffer = java.util.Arrays.copyOf(buffer, buffer.length + 1);
+        }
+        buffer[at++] = '\n';
+        return java.util.Arrays.copyOf(buffer, at);
+    }
+
+    /** Copies an ASCII string (a number's text, at most 25 characters) into buffer at, returning the end. */
+    private static int ascii(String text, byte[] buffer, int at) {
+        for (int i = 0; i < text.length(); i++) {
+            buffer[at++] = (byte) text.charAt(i);
+        }
+        return at;
+    }
+
     private static String row(Draws draws, int chain, int iteration) {
         int k = draws.names().size();
         StringBuilder sb = new StringBuilder(24 * (k + 2));
         sb.append(chain + 1).append(',').append(iteration + 1);
         for (int j = 0; j < k; j++) {
-            sb.append(',').append(draws.value(chain, j, iteration));
+            sb.append(',').append(NumberOutput.toString(draws.value(chain, j, iteration), true));
         }
         return sb.append('\n').toString();
     }

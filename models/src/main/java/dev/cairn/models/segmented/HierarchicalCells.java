@@ -180,6 +180,73 @@ final class HierarchicalCells {
         return lp;
     }
 
+    /**
+     * Segment j's cell values at point x: value_jk for every arm k.
+     *
+     * @param x   the unconstrained point (not modified)
+     * @param j   the segment
+     * @param out per arm (modified)
+     */
+    void segmentValues(double[] x, int j, double[] out) {
+        double l = level(x, j);
+        double tauEffect = sharedEffects ? 0 : Math.exp(x[logTauEffect]);
+        for (int k = 0; k < arms; k++) {
+            if (k == control) {
+                out[k] = l;
+            } else if (sharedEffects) {
+                out[k] = l + x[armMean[k]];
+            } else if (effectNc[j]) {
+                out[k] = l + x[armMean[k]] + tauEffect * x[effect[j][k]];
+            } else {
+                out[k] = x[effect[j][k]];
+            }
+        }
+    }
+
+    /**
+     * Stores new cell values of segment j in its coordinates, the hyperparameters at x held (for shared
+     * effects only the level is read from {@code values}).
+     *
+     * @param x      the unconstrained point (segment j's coordinates modified)
+     * @param j      the segment
+     * @param values per arm, the new value_jk (not modified)
+     */
+    void storeSegment(double[] x, int j, double[] values) {
+        double l = values[control];
+        x[level[j]] = levelNc[j] ? (l - x[levelMean]) / Math.exp(x[logTauLevel]) : l;
+        if (sharedEffects) {
+            return;
+        }
+        double tauEffect = Math.exp(x[logTauEffect]);
+        for (int k = 0; k < arms; k++) {
+            if (k != control) {
+                x[effect[j][k]] = effectNc[j] ? (values[k] - l - x[armMean[k]]) / tauEffect : values[k];
+            }
+        }
+    }
+
+    /**
+     * The prior of one segment's centred coordinates u = (level at the control position, effect_k elsewhere)
+     * given the hyperparameters at x: independent normals, the same for every segment.
+     *
+     * @param x         the unconstrained point (not modified)
+     * @param precision per position, 1/tauLevel^2 or 1/tauEffect^2 (modified)
+     * @param mean      per position, levelMean or armMean_k (modified)
+     */
+    void segmentPrior(double[] x, double[] precision, double[] mean) {
+        double tauLevel = Math.exp(x[logTauLevel]);
+        double tauEffect = sharedEffects ? 0 : Math.exp(x[logTauEffect]);
+        for (int k = 0; k < arms; k++) {
+            if (k == control) {
+                precision[k] = 1 / (tauLevel * tauLevel);
+                mean[k] = x[levelMean];
+            } else {
+                precision[k] = sharedEffects ? Double.POSITIVE_INFINITY : 1 / (tauEffect * tauEffect);
+                mean[k] = x[armMean[k]];
+            }
+        }
+    }
+
     /** Unconstrained coordinates from centred values (for starting points): levels, effects and log taus. */
     void store(double[] x, double mean, double tauLevel, double tauEffect, double[] levels, double[][] effects) {
         x[levelMean] = mean;

@@ -21,41 +21,59 @@ import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
  *   <li>each armMean_k exactly, then log tauEffect by slice sampling, from the effects in the same way;</li>
  * </ul>
  * then the coordinates are written back (non-centred ones move, centred ones stay). Each move is a Gibbs
- * update of the posterior, so the step leaves it invariant whatever parameterisation the chain stores. The
- * NUTS transitions already move the scales in the non-centred directions; these moves add the centred ones,
- * which mix well exactly where the others do not (scales near zero with weak data). Cost O(cells).
+ * update of the posterior, so the step leaves it invariant whatever parameterisation the chain stores.
+ * Given a cell likelihood, the non-centred half follows: levelMean and every armMean_k move together with
+ * the standardised levels and effects held ({@code locations}, a Newton-proposal Metropolis-Hastings move).
+ * The centred moves mix well where the data pin the values, the non-centred one where they do not.
+ * Cost O(cells).
  */
 final class HyperStep implements Step {
     private final HierarchicalCells s;
     private final HierarchicalCells.Prior prior;
     private final CellLikelihood likelihood;
-    private final double[] effectNoise;
 
     /**
      * @param structure   the structure whose hyperparameters move
      * @param prior       its hyperpriors
-     * @param likelihood  the log likelihood of one cell as a function of its value (for the partially centred
-     *                    move of the effect scale; null: no such move)
-     * @param effectNoise per segment, the variance of its raw arm-effect estimates (which segments the data
-     *                    pin)
+     * @param likelihood  the log likelihood of one cell as a function of its value (for the non-centred
+     *                    location moves; null: none)
      */
-    HyperStep(HierarchicalCells structure, HierarchicalCells.Prior prior, CellLikelihood likelihood,
-              double[] effectNoise) {
+    HyperStep(HierarchicalCells structure, HierarchicalCells.Prior prior, CellLikelihood likelihood) {
         this.s = structure;
         this.prior = prior;
         this.likelihood = likelihood;
-        this.effectNoise = effectNoise;
     }
 
-    /** The log likelihood of cell (j * arms + k) at a value of the structure's cell value, others held. */
+    /**
+     * The log likelihood of cell (j * arms + k) as a function of the structure's cell value, the rest of the
+     * point held. {@link #prepare} reads what the cells need from the point once (say each cell's sigma);
+     * the evaluations then read only the prepared values.
+     */
     interface CellLikelihood {
         /**
-         * @param x     the current point (not modified)
-         * @param cell  segment-major cell index
-         * @param value the cell's value (payer-rate logit, or mean log spend)
+         * @param x        the current point (not modified)
+         * @param prepared per cell, whatever the evaluations need from x (modified)
+         */
+        void prepare(double[] x, double[] prepared);
+
+        /**
+         * @param prepared from {@link #prepare} (not modified)
+         * @param cell     segment-major cell index
+         * @param value    the cell's value (payer-rate logit, or mean log spend)
          * @return the cell's log likelihood, constants dropped
          */
-        double at(double[] x, int cell, double value);
+        double at(double[] prepared, int cell, double value);
+
+        /**
+         * The same with its first and second derivatives in the value.
+         *
+         * @param prepared    from {@link #prepare} (not modified)
+         * @param cell        segment-major cell index
+         * @param value       the cell's value
+         * @param derivatives the first derivative at [0] and the second at [1] (modified)
+         * @return the cell's log likelihood, constants dropped
+         */
+        double withDerivatives(double[] prepared, int cell, double value, double[] derivatives);
     }
 
     @Override
@@ -68,10 +86,12 @@ final class HyperStep implements Step {
         private final ZigguratSampler.NormalizedGaussian normal;
         private final double[] levels = new double[s.segments];
         private final double[] values = new double[s.segments * s.arms];
-        /** Warmup draws of the effect scale, to place the split of the partially centred move. */
-        private final java.util.ArrayList<Double> warmupScales = new java.util.ArrayList<>();
-        private double split = Double.NaN;
-        private boolean frozen;
+        private final double[] cell = new double[2], prepared = new double[s.segments * s.arms];
+        private final double[] zero = new double[s.arms], delta = new double[s.arms], centre = new double[s.arms];
+        private final double[] eps = new double[s.arms], gradient0 = new double[s.arms], gradient1 = new double[s.arms];
+        private final double[] precision = new double[s.arms], information = new double[s.arms];
+        private final SegmentGaussian gauss0 = new SegmentGaussian(s.arms, s.control);
+        private final SegmentGaussian gauss1 = new SegmentGaussian(s.arms, s.control);
 
         Interweave(int size, UniformRandomProvider stream) {
             slice = new LocalSlice(size, 0.5, stream);
@@ -109,86 +129,104 @@ final class HyperStep implements Step {
             }
             if (!s.sharedEffects) {
                 effects(x);
-                if (likelihood != null) {
-                    partiallyCentred(x, adapt);
-                }
+            }
+            if (likelihood != null) {
+                locations(x);
             }
             state.invalidate();
         }
 
         /**
-         * The effect scale given the centred effects of the segments whose data pin them (raw-estimate variance
-         * below split^2) and the non-centred effects z of the others: the likelihood of those others' cells
-         * moves with tau, the prior of the pinned ones too. Neither extreme parameterisation moves tau when a
-         * few segments are large and many are small; this one does. The split is the median effect scale of
-         * the second half of warmup, fixed for the kept draws.
+         * The non-centred half of the interweaving for the locations: levelMean and every armMean_k move
+         * together with every standardised level and effect held, so a change (dL, dA_k) shifts the control
+         * cells by dL and arm k's cells by dL + dA_k in every segment. Where the levels or effects barely differ
+         * between segments the centred moves above crawl (the values pin their mean), and so does any move of
+         * one location alone when the arms' shifts trade off against the level's; this move goes along all of
+         * them at once. It is a Metropolis-Hastings move proposed from the Gaussian that matches the log
+         * conditional's gradient g and Hessian -H at the current point, N(H^-1 g, H^-1) (a Newton step with
+         * its own uncertainty; the conditional is log-concave in the shifts, and H is an arrow matrix, see
+         * {@link SegmentGaussian}), the reverse proposal taken at the proposed point. Centred coordinates are
+         * written back shifted. Two passes over the cells.
          */
-        private void partiallyCentred(double[] x, boolean adapt) {
-            double tau = Math.exp(x[s.logTauEffect]);
-            if (adapt) {
-                warmupScales.add(tau);
-                split = median(warmupScales.subList(warmupScales.size() / 2, warmupScales.size()));
-            } else if (!frozen) {
-                frozen = true;
-                if (!warmupScales.isEmpty()) {
-                    split = median(warmupScales.subList(warmupScales.size() / 2, warmupScales.size()));
-                }
-            }
-            if (Double.isNaN(split)) {
-                return;
-            }
+        private void locations(double[] x) {
             int arms = s.arms;
             s.values(x, values);
-            double pinnedSquares = 0;
-            int pinnedCount = 0;
-            int free = 0;
-            int[] freeCells = new int[s.segments * arms];
-            double[] freeBase = new double[s.segments * arms];
-            double[] freeZ = new double[s.segments * arms];
-            double[] effect = new double[s.segments * arms];
+            likelihood.prepare(x, prepared);
+            java.util.Arrays.fill(zero, 0);
+            double f0 = shifted(x, zero, gradient0, gauss0);
+            if (!Double.isFinite(f0)) {
+                return;
+            }
+            gauss0.solve(gradient0, centre);
+            for (int k = 0; k < arms; k++) {
+                eps[k] = normal.sample();
+            }
+            gauss0.whiten(eps, delta);
+            for (int k = 0; k < arms; k++) {
+                delta[k] += centre[k];
+                eps[k] = delta[k] - centre[k];
+            }
+            double forth = -0.5 * gauss0.quadratic(eps) + 0.5 * gauss0.logDeterminant();
+            double f1 = shifted(x, delta, gradient1, gauss1);
+            if (!Double.isFinite(f1)) {
+                return;
+            }
+            gauss1.solve(gradient1, centre);
+            for (int k = 0; k < arms; k++) {
+                eps[k] = -delta[k] - centre[k];
+            }
+            double back = -0.5 * gauss1.quadratic(eps) + 0.5 * gauss1.logDeterminant();
+            if (!(Math.log(slice.rng().nextDouble()) < f1 - f0 + back - forth)) {
+                return;
+            }
+            double level = delta[s.control];
+            x[s.levelMean] += level;
+            for (int k = 0; k < arms; k++) {
+                if (k != s.control) {
+                    x[s.armMean[k]] += delta[k];
+                }
+            }
             for (int j = 0; j < s.segments; j++) {
-                boolean pinned = effectNoise[j] < split * split;
-                double level = values[j * arms + s.control];
-                for (int k = 0; k < arms; k++) {
-                    if (k == s.control) {
-                        continue;
-                    }
-                    double e = values[j * arms + k] - level - x[s.armMean[k]];
-                    effect[j * arms + k] = e;
-                    if (pinned) {
-                        pinnedSquares += e * e;
-                        pinnedCount++;
-                    } else {
-                        freeCells[free] = j * arms + k;
-                        freeBase[free] = level + x[s.armMean[k]];
-                        freeZ[free] = e / tau;
-                        free++;
+                if (!s.levelNc[j]) {
+                    x[s.level[j]] += level;
+                }
+                for (int k = 0; k < arms && !s.sharedEffects; k++) {
+                    if (k != s.control && !s.effectNc[j]) {
+                        x[s.effect[j][k]] += level + delta[k];
                     }
                 }
             }
-            double ss = pinnedSquares;
-            int n = pinnedCount, f = free;
-            slice.update(x, s.logTauEffect, l -> {
-                double t = Math.exp(l);
-                double lp = prior.effect().logDensityOfLog(l) - n * l - ss / (2 * t * t);
-                for (int i = 0; i < f; i++) {
-                    lp += likelihood.at(x, freeCells[i], freeBase[i] + t * freeZ[i]);
-                }
-                return lp;
-            });
-            double newTau = Math.exp(x[s.logTauEffect]);
-            // write back: pinned effects keep their centred value, free ones their z
+        }
+
+        /**
+         * The log conditional of the shifts d (dL at the control position, dA_k elsewhere), with its gradient
+         * (modified) and its Hessian's negative (set into {@code h}).
+         */
+        private double shifted(double[] x, double[] d, double[] gradient, SegmentGaussian h) {
+            int arms = s.arms;
+            double lp = 0;
+            for (int k = 0; k < arms; k++) {
+                dev.cairn.models.prior.Normal p = k == s.control ? prior.mean() : prior.armMean();
+                double location = (k == s.control ? x[s.levelMean] : x[s.armMean[k]]) + d[k];
+                lp += p.logDensity(location);
+                gradient[k] = p.derivative(location);
+                precision[k] = 1 / (p.sd() * p.sd());
+                information[k] = 0;
+            }
             for (int j = 0; j < s.segments; j++) {
-                boolean pinned = effectNoise[j] < split * split;
-                double level = values[j * arms + s.control];
                 for (int k = 0; k < arms; k++) {
+                    int c = j * arms + k;
+                    double shift = k == s.control ? d[k] : d[s.control] + d[k];
+                    lp += likelihood.withDerivatives(prepared, c, values[c] + shift, cell);
+                    information[k] -= cell[1];
                     if (k != s.control) {
-                        double e = effect[j * arms + k];
-                        double newEffect = pinned ? e : e / tau * newTau;
-                        x[s.effect[j][k]] = s.effectNc[j] ? newEffect / newTau : level + x[s.armMean[k]] + newEffect;
+                        gradient[k] += cell[0];
                     }
+                    gradient[s.control] += cell[0];
                 }
             }
+            h.set(precision, information);
+            return lp;
         }
 
         private void effects(double[] x) {
@@ -225,11 +263,6 @@ final class HyperStep implements Step {
                     }
                 }
             }
-        }
-
-        private double median(java.util.List<Double> v) {
-            double[] a = v.stream().mapToDouble(Double::doubleValue).sorted().toArray();
-            return a.length == 0 ? Double.NaN : a[a.length / 2];
         }
 
         /** Slice update of log tau given n centred values with squared deviations ss around their mean. */

@@ -140,30 +140,104 @@ final class SegmentedDensity implements GradientTarget {
         return lp;
     }
 
-    /** The binomial log likelihood of one cell at payer-rate logit eta (0 for a cell without users). */
-    double payerCell(double[] x, int cell, double eta) {
-        double n = cells.users[cell];
-        if (n == 0) {
-            return 0;
-        }
-        double t = Math.exp(-Math.abs(eta));
-        return cells.payers[cell] * eta - n * (Math.max(eta, 0) + Math.log(1 + t));
+    /** The binomial log likelihood of one cell as a function of its payer-rate logit (0 for a cell without users). */
+    HyperStep.CellLikelihood payerCells() {
+        return new HyperStep.CellLikelihood() {
+            @Override
+            public void prepare(double[] x, double[] prepared) {
+                // the binomial needs nothing from the point
+            }
+
+            @Override
+            public double at(double[] prepared, int cell, double eta) {
+                double n = cells.users[cell];
+                if (n == 0) {
+                    return 0;
+                }
+                return cells.payers[cell] * eta - n * (Math.max(eta, 0) + Math.log(1 + Math.exp(-Math.abs(eta))));
+            }
+
+            @Override
+            public double withDerivatives(double[] prepared, int cell, double eta, double[] derivatives) {
+                double n = cells.users[cell], m = cells.payers[cell];
+                if (n == 0) {
+                    derivatives[0] = 0;
+                    derivatives[1] = 0;
+                    return 0;
+                }
+                double t = Math.exp(-Math.abs(eta));
+                double p = eta >= 0 ? 1 / (1 + t) : t / (1 + t);
+                derivatives[0] = m - n * p;
+                derivatives[1] = -n * p * (1 - p);
+                return m * eta - n * (Math.max(eta, 0) + Math.log(1 + t));
+            }
+        };
     }
 
     /**
-     * The lognormal log likelihood of one cell's payers at mean log spend mu, with the cell's sigma from the
-     * point x (0 for a cell without payers).
+     * The lognormal log likelihood of one cell's payers as a function of its mean log spend mu, with the
+     * cell's sigma from the point (prepared: 1 / sigma_jk^2 per cell; 0 for a cell without payers).
      */
-    double meanCell(double[] x, int cell, double mu) {
-        double m = cells.payers[cell];
-        if (m == 0) {
-            return 0;
-        }
-        int arms = cells.armCount(), j = cell / arms, k = cell % arms;
-        HierarchicalCells spread = layout.spread;
-        double logSigma = spread.level(x, j) + (k == cells.control ? 0 : x[spread.armMean[k]]);
-        double squares = cells.logSpendSqSum[cell] - 2 * mu * cells.logSpendSum[cell] + m * mu * mu;
-        return -0.5 * squares * Math.exp(-2 * logSigma);
+    HyperStep.CellLikelihood meanCells() {
+        return new HyperStep.CellLikelihood() {
+            @Override
+            public void prepare(double[] x, double[] prepared) {
+                layout.spread.values(x, prepared);
+                for (int c = 0; c < prepared.length; c++) {
+                    prepared[c] = Math.exp(-2 * prepared[c]);
+                }
+            }
+
+            @Override
+            public double at(double[] prepared, int cell, double mu) {
+                double m = cells.payers[cell];
+                if (m == 0) {
+                    return 0;
+                }
+                double squares = cells.logSpendSqSum[cell] - 2 * mu * cells.logSpendSum[cell] + m * mu * mu;
+                return -0.5 * squares * prepared[cell];
+            }
+
+            @Override
+            public double withDerivatives(double[] prepared, int cell, double mu, double[] derivatives) {
+                double m = cells.payers[cell], precision = prepared[cell];
+                derivatives[0] = (cells.logSpendSum[cell] - m * mu) * precision;
+                derivatives[1] = -m * precision;
+                return at(prepared, cell, mu);
+            }
+        };
+    }
+
+    /**
+     * The lognormal log likelihood of one cell's payers as a function of its log spread l = log sigma_jk, with
+     * the cell's mean log spend from the point (prepared: the squared deviations SS_jk around it):
+     * -m l - SS e^(-2l) / 2.
+     */
+    HyperStep.CellLikelihood spreadCells() {
+        return new HyperStep.CellLikelihood() {
+            @Override
+            public void prepare(double[] x, double[] prepared) {
+                layout.mean.values(x, prepared);
+                for (int c = 0; c < prepared.length; c++) {
+                    double m = cells.payers[c], mu = prepared[c];
+                    prepared[c] = m == 0 ? 0
+                            : Math.max(0, cells.logSpendSqSum[c] - 2 * mu * cells.logSpendSum[c] + m * mu * mu);
+                }
+            }
+
+            @Override
+            public double at(double[] prepared, int cell, double l) {
+                return -cells.payers[cell] * l - 0.5 * prepared[cell] * Math.exp(-2 * l);
+            }
+
+            @Override
+            public double withDerivatives(double[] prepared, int cell, double l, double[] derivatives) {
+                double q = prepared[cell] * Math.exp(-2 * l);
+                derivatives[0] = -cells.payers[cell] + q;
+                derivatives[1] = -2 * q;
+                return -cells.payers[cell] * l - 0.5 * q;
+            }
+        };
     }
 
     /**

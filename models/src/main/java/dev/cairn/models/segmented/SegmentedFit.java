@@ -36,9 +36,11 @@ public final class SegmentedFit {
         String control = FitSupport.control(spec, arms, data.source());
         List<Metric> available = Metric.spend(data.hasSpend());
         Metric decided = fitting.decisionMetric(available, available.get(0));
-        String method = FitSupport.gradientMethod(spec.samplerOrDefault().method(), "segmented-spend", "nuts");
+        String method = FitSupport.gradientMethod(spec.samplerOrDefault().method(), "segmented-spend",
+                SegmentedPosterior.AUTO, SegmentedPosterior.SEGMENT_GIBBS);
         SegmentedPosterior model = new SegmentedPosterior(data, control, own.parameterisation());
-        RunSettings settings = fitting.settings(false);
+        RunSettings settings = method.equals(SegmentedPosterior.SEGMENT_GIBBS)
+                ? fitting.settingsWithWarmup(SegmentedPosterior.GIBBS_WARMUP) : fitting.settings(false);
         Draws internal = model.sample(method, settings, options.progress(), options.cancellation());
 
         long total = 0;

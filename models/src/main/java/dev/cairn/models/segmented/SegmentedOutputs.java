@@ -23,6 +23,7 @@ import java.util.List;
 final class SegmentedOutputs {
     static final String TYPICAL = "typical";
     static final String POPULATION = dev.cairn.models.result.Metric.POPULATION;
+    private static final int BLOCK = 32;
 
     private SegmentedOutputs() {
     }
@@ -75,92 +76,122 @@ final class SegmentedOutputs {
 
     static Draws of(Draws internal, SegmentedCells cells, SegmentedLayout layout, double[] weights) {
         List<String> names = names(cells);
-        int segs = cells.segmentCount(), arms = cells.armCount(), control = cells.control;
+        int segs = cells.segmentCount(), arms = cells.armCount();
         int chains = internal.chains(), iterations = internal.iterations(), size = layout.size();
         double[][][] out = new double[chains][names.size()][iterations];
-        HierarchicalCells payer = layout.payer, mean = layout.mean, spread = layout.spread;
         double[][][] columns = new double[size][][];
         for (int i = 0; i < size; i++) {
             columns[i] = internal.column(layout.parameters.name(i));
         }
-        // chains in parallel: each writes only its own slice, so the result does not depend on the threads
+        // chains in parallel: each writes only its own slice, so the result does not depend on the threads.
+        // Draws go through in blocks: a block's coordinates are read column by column, its quantities are
+        // computed row by row into a buffer, and the buffer is written out column by column, so that both
+        // the reads and the writes run along the column arrays.
+        int columnCount = names.size();
         java.util.stream.IntStream.range(0, chains).parallel().forEach(c -> {
-            double[] x = new double[size];
+            double[][] xs = new double[BLOCK][size], rows = new double[BLOCK][columnCount];
             double[] eta = new double[segs * arms], mu = new double[segs * arms], logSigma = new double[segs * arms];
-            for (int t = 0; t < iterations; t++) {
+            double[] popRate = new double[arms], popArpu = new double[arms];
+            for (int first = 0; first < iterations; first += BLOCK) {
+                int count = Math.min(BLOCK, iterations - first);
                 for (int i = 0; i < size; i++) {
-                    x[i] = columns[i][c][t];
-                }
-                double[][] o = out[c];
-                int col = 0;
-                o[col++][t] = x[payer.levelMean];
-                o[col++][t] = Math.exp(x[payer.logTauLevel]);
-                o[col++][t] = Math.exp(x[payer.logTauEffect]);
-                for (int k = 0; k < arms; k++) {
-                    if (k != control) {
-                        o[col++][t] = x[payer.armMean[k]];
+                    double[] column = columns[i][c];
+                    for (int b = 0; b < count; b++) {
+                        xs[b][i] = column[first + b];
                     }
                 }
-                if (cells.spend) {
-                    o[col++][t] = x[mean.levelMean];
-                    o[col++][t] = x[spread.levelMean];
-                    o[col++][t] = Math.exp(x[mean.logTauLevel]);
-                    o[col++][t] = Math.exp(x[mean.logTauEffect]);
-                    o[col++][t] = Math.exp(x[spread.logTauLevel]);
-                    for (int k = 0; k < arms; k++) {
-                        if (k != control) {
-                            o[col++][t] = x[mean.armMean[k]];
-                            o[col++][t] = x[spread.armMean[k]];
-                        }
-                    }
+                for (int b = 0; b < count; b++) {
+                    row(xs[b], rows[b], cells, layout, weights, eta, mu, logSigma, popRate, popArpu);
                 }
-                for (int k = 0; k < arms; k++) {
-                    double p = logistic(x[payer.levelMean] + (k == control ? 0 : x[payer.armMean[k]]));
-                    o[col++][t] = p;
-                    if (cells.spend) {
-                        double e = k == control ? 0 : x[mean.armMean[k]];
-                        double g = k == control ? 0 : x[spread.armMean[k]];
-                        double arppu = Math.exp(x[mean.levelMean] + e + 0.5 * Math.exp(2 * (x[spread.levelMean] + g)));
-                        o[col++][t] = arppu;
-                        o[col++][t] = p * arppu;
-                    }
-                }
-                int population = col;
-                col += arms * (cells.spend ? 3 : 1);
-                payer.values(x, eta);
-                if (cells.spend) {
-                    mean.values(x, mu);
-                    spread.values(x, logSigma);
-                }
-                double[] popRate = new double[arms], popArpu = new double[arms];
-                for (int j = 0; j < segs; j++) {
-                    if (cells.spend) {
-                        o[col++][t] = Math.exp(logSigma[j * arms + control]);
-                    }
-                    for (int k = 0; k < arms; k++) {
-                        int cell = j * arms + k;
-                        double p = logistic(eta[cell]);
-                        o[col++][t] = p;
-                        popRate[k] += weights[j] * p;
-                        if (cells.spend) {
-                            double arppu = Math.exp(mu[cell] + 0.5 * Math.exp(2 * logSigma[cell]));
-                            o[col++][t] = mu[cell];
-                            o[col++][t] = arppu;
-                            o[col++][t] = p * arppu;
-                            popArpu[k] += weights[j] * p * arppu;
-                        }
-                    }
-                }
-                for (int k = 0; k < arms; k++) {
-                    o[population++][t] = popRate[k];
-                    if (cells.spend) {
-                        o[population++][t] = popArpu[k] / popRate[k];
-                        o[population++][t] = popArpu[k];
+                for (int col = 0; col < columnCount; col++) {
+                    double[] target = out[c][col];
+                    for (int b = 0; b < count; b++) {
+                        target[first + b] = rows[b][col];
                     }
                 }
             }
         });
         return Draws.handOver(names, out);
+    }
+
+    /**
+     * The named quantities of one draw, in the order of {@link #names}.
+     *
+     * @param x the draw's coordinates (not modified)
+     * @param o the quantities (modified)
+     * (the remaining arrays are scratch, modified)
+     */
+    private static void row(double[] x, double[] o, SegmentedCells cells, SegmentedLayout layout, double[] weights,
+                            double[] eta, double[] mu, double[] logSigma, double[] popRate, double[] popArpu) {
+        int segs = cells.segmentCount(), arms = cells.armCount(), control = cells.control;
+        HierarchicalCells payer = layout.payer, mean = layout.mean, spread = layout.spread;
+        int col = 0;
+        o[col++] = x[payer.levelMean];
+        o[col++] = Math.exp(x[payer.logTauLevel]);
+        o[col++] = Math.exp(x[payer.logTauEffect]);
+        for (int k = 0; k < arms; k++) {
+            if (k != control) {
+                o[col++] = x[payer.armMean[k]];
+            }
+        }
+        if (cells.spend) {
+            o[col++] = x[mean.levelMean];
+            o[col++] = x[spread.levelMean];
+            o[col++] = Math.exp(x[mean.logTauLevel]);
+            o[col++] = Math.exp(x[mean.logTauEffect]);
+            o[col++] = Math.exp(x[spread.logTauLevel]);
+            for (int k = 0; k < arms; k++) {
+                if (k != control) {
+                    o[col++] = x[mean.armMean[k]];
+                    o[col++] = x[spread.armMean[k]];
+                }
+            }
+        }
+        for (int k = 0; k < arms; k++) {
+            double p = logistic(x[payer.levelMean] + (k == control ? 0 : x[payer.armMean[k]]));
+            o[col++] = p;
+            if (cells.spend) {
+                double e = k == control ? 0 : x[mean.armMean[k]];
+                double g = k == control ? 0 : x[spread.armMean[k]];
+                double arppu = Math.exp(x[mean.levelMean] + e + 0.5 * Math.exp(2 * (x[spread.levelMean] + g)));
+                o[col++] = arppu;
+                o[col++] = p * arppu;
+            }
+        }
+        int population = col;
+        col += arms * (cells.spend ? 3 : 1);
+        payer.values(x, eta);
+        if (cells.spend) {
+            mean.values(x, mu);
+            spread.values(x, logSigma);
+        }
+        java.util.Arrays.fill(popRate, 0);
+        java.util.Arrays.fill(popArpu, 0);
+        for (int j = 0; j < segs; j++) {
+            if (cells.spend) {
+                o[col++] = Math.exp(logSigma[j * arms + control]);
+            }
+            for (int k = 0; k < arms; k++) {
+                int cell = j * arms + k;
+                double p = logistic(eta[cell]);
+                o[col++] = p;
+                popRate[k] += weights[j] * p;
+                if (cells.spend) {
+                    double arppu = Math.exp(mu[cell] + 0.5 * Math.exp(2 * logSigma[cell]));
+                    o[col++] = mu[cell];
+                    o[col++] = arppu;
+                    o[col++] = p * arppu;
+                    popArpu[k] += weights[j] * p * arppu;
+                }
+            }
+        }
+        for (int k = 0; k < arms; k++) {
+            o[population++] = popRate[k];
+            if (cells.spend) {
+                o[population++] = popArpu[k] / popRate[k];
+                o[population++] = popArpu[k];
+            }
+        }
     }
 
     static double logistic(double z) {

@@ -14,14 +14,31 @@ import dev.cairn.samplers.Sweep;
 /**
  * The segmented-spend posterior ready to sample: the cells ({@link SegmentedCells}), the named coordinates
  * ({@link SegmentedLayout}), the density with its gradient ({@link SegmentedDensity}, where the model is
- * written out) and the update schedule: by default one No-U-Turn transition per iteration over the
- * payer-rate coordinates on the payer-rate part of the density, then one over the spend coordinates on the
- * spend part (the two parts share no parameter, so each block's part is its full conditional), each
- * followed by interweaving moves of its hyperparameters in the centred parameterisation ({@link HyperStep})
- * and, for the spend levels, a collapsed update ({@link CollapsedSpendLevels}); "slice" and "metropolis-within-gibbs" update one coordinate at a time through the same density
- * (slow beyond a few segments, kept for comparison).
+ * written out) and the update schedules.
+ *
+ * <p>"segment-gibbs" (the default): given the hyperparameters the segments are independent, so each
+ * segment's coordinates are drawn as one block from their conditional (payer rates by an independence
+ * Metropolis-Hastings proposal from the conditional's mode, {@link PayerSegments}; mean log spend exactly
+ * and log spread by slice sampling, {@link SpendSegments}), and the hyperparameters move by centred and
+ * non-centred (interweaving) moves ({@link HyperStep}), partially non-centred scale moves
+ * ({@link EffectScaleMove}, {@link LevelScaleMove}) and collapsed updates of the spend levels and arm effects
+ * ({@link CollapsedSpendLevels}, {@link CollapsedSpendEffects}). One sweep costs O(cells), with no
+ * trajectory of gradient evaluations.
+ *
+ * <p>"nuts": one No-U-Turn transition per iteration over the payer-rate coordinates on the payer-rate part of
+ * the density, then one over the spend coordinates on the spend part (the two parts share no parameter, so
+ * each block's part is its full conditional), each followed by the same hyperparameter moves. "slice" and
+ * "metropolis-within-gibbs" update one coordinate at a time through the same density (slow beyond a few
+ * segments, kept for comparison).
  */
 final class SegmentedPosterior {
+    static final String SEGMENT_GIBBS = "segment-gibbs", NUTS = "nuts", AUTO = SEGMENT_GIBBS;
+    /**
+     * The default warmup of segment-gibbs: its blocks are drawn from their conditionals, so warmup only
+     * forgets the start and sets slice widths and one random-walk step size (NUTS adapts a step size and a
+     * metric and keeps the spec's default of 1,000).
+     */
+    static final int GIBBS_WARMUP = 300;
     final SegmentedCells cells;
     final SegmentedLayout layout;
     final SegmentedDensity density;
@@ -37,20 +54,48 @@ final class SegmentedPosterior {
         Sweep sweep = switch (method) {
             case "slice" -> Sweep.of(SliceStep.of(1.0));
             case "metropolis-within-gibbs" -> Sweep.of(MetropolisStep.of(0.5));
-            default -> cells.spend
+            case NUTS -> cells.spend
                     ? Sweep.of(NutsStep.of(settings.warmup(), range(0, layout.payerEnd), 10, 0.8).on(density.part(true)),
-                            new HyperStep(layout.payer, SegmentedLayout.PAYER, density::payerCell,
-                                    layout.raw.effectVariance[0]),
+                            payerHypers(), payerScale(),
                             NutsStep.of(settings.warmup(), range(layout.payerEnd, layout.size()), 10, 0.8).on(density.part(false)),
-                            new HyperStep(layout.mean, SegmentedLayout.MEAN, density::meanCell,
-                                    layout.raw.effectVariance[1]),
-                            new CollapsedSpendLevels(cells, layout),
-                            new HyperStep(layout.spread, SegmentedLayout.SPREAD, null, null))
-                    : Sweep.of(NutsStep.of(settings.warmup()), new HyperStep(layout.payer, SegmentedLayout.PAYER,
-                            density::payerCell, layout.raw.effectVariance[0]));
+                            meanHypers(), new CollapsedSpendLevels(cells, layout), spreadHypers())
+                    : Sweep.of(NutsStep.of(settings.warmup()), payerHypers(), payerScale());
+            default -> cells.spend
+                    ? Sweep.of(new PayerSegments(cells, layout.payer), payerHypers(), payerScale(), payerLevelScale(),
+                            new SpendSegments(cells, layout),
+                            meanHypers(),
+                            new CollapsedSpendLevels(cells, layout), new CollapsedSpendEffects(cells, layout),
+                            spreadHypers(), spreadLevelScale())
+                    : Sweep.of(new PayerSegments(cells, layout.payer), payerHypers(), payerScale(), payerLevelScale());
         };
         return ChainRunner.of(settings).withProgress(progress).withCancellation(cancellation)
                 .run(density, sweep, (chain, p, rng) -> density.start(rng));
+    }
+
+    private HyperStep payerHypers() {
+        return new HyperStep(layout.payer, SegmentedLayout.PAYER, density.payerCells());
+    }
+
+    private EffectScaleMove payerScale() {
+        double[][] pseudo = EffectScaleMove.payerEstimates(cells);
+        return new EffectScaleMove(layout.payer, SegmentedLayout.PAYER, density.payerCells(), pseudo[0], pseudo[1]);
+    }
+
+    private HyperStep meanHypers() {
+        return new HyperStep(layout.mean, SegmentedLayout.MEAN, density.meanCells());
+    }
+
+    private HyperStep spreadHypers() {
+        return new HyperStep(layout.spread, SegmentedLayout.SPREAD, density.spreadCells());
+    }
+
+    private LevelScaleMove payerLevelScale() {
+        double[][] pseudo = EffectScaleMove.payerEstimates(cells);
+        return new LevelScaleMove(layout.payer, SegmentedLayout.PAYER, density.payerCells(), pseudo[0], pseudo[1]);
+    }
+
+    private LevelScaleMove spreadLevelScale() {
+        return new LevelScaleMove(layout.spread, SegmentedLayout.SPREAD, density.spreadCells(), null, null);
     }
 
     private static int[] range(int from, int to) {

@@ -61,8 +61,11 @@ class SegmentedFitTest {
         Result ok = fit("{\"seed\": 4}", "");
         assertTrue(ok.run().parameterisation().startsWith("payer-rate levels centred in 0 of 30 segments"),
                 ok.run().parameterisation());
-        assertEquals("nuts", ok.run().method());
+        assertEquals("segment-gibbs", ok.run().method());
         assertTrue(ok.converged(), ok.diagnostics().reasons().toString());
+        Result nuts = fit("{\"seed\": 4, \"method\": \"nuts\"}", "");
+        assertEquals("nuts", nuts.run().method());
+        assertTrue(nuts.converged(), nuts.diagnostics().reasons().toString());
         Result tooShort = fit("{\"seed\": 4, \"warmup\": 10, \"draws\": 20}", "");
         assertFalse(tooShort.converged());
         assertTrue(tooShort.warnings().get(0).startsWith("NOT converged"), tooShort.warnings().get(0));

@@ -17,7 +17,8 @@ import java.util.List;
 import java.util.Map;
 import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
-import org.junit.jupiter.api.Test;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.ValueSource;
 
 /**
  * segmented-spend on simulated segments with known truth: coverage, shrinkage, SBC, a funnel of tiny
@@ -54,8 +55,9 @@ class SegmentedTest {
         return 1 / (1 + Math.exp(-z));
     }
 
-    @Test
-    void intervalsCoverTheTruthAndSmallSegmentsShrink() {
+    @ParameterizedTest
+    @ValueSource(strings = {"segment-gibbs", "nuts"})
+    void intervalsCoverTheTruthAndSmallSegmentsShrink(String method) {
         UniformRandomProvider rng = RandomStreams.forChain(505, 0);
         ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
         int[] users = {150, 300, 500, 800, 1200, 2000, 3000, 5000, 8000, 12000, 20000, 40000};
@@ -78,7 +80,7 @@ class SegmentedTest {
             }
             SegmentedSpendData data = simulate(p, mu, sd, users, rng);
             SegmentedPosterior model = new SegmentedPosterior(data, "A", "auto");
-            Draws internal = model.sample("nuts", RunSettings.of(2, 500, 1000, 900 + r).withThreads(1), Progress.NONE,
+            Draws internal = model.sample(method, RunSettings.of(2, 500, 1000, 900 + r).withThreads(1), Progress.NONE,
                     new Cancellation());
             double[] weights = new double[jn];
             java.util.Arrays.fill(weights, 1.0 / jn);
@@ -99,7 +101,7 @@ class SegmentedTest {
             largeShrink += shrink(d, data, data.segments().get(jn - 1), typical) / replications;
         }
         double coverage = (double) covered / total;
-        assertEquals(0.90, coverage, 0.05, "coverage of 90% intervals");
+        assertEquals(0.90, coverage, 0.05, method + ": coverage of 90% intervals");
         assertTrue(smallShrink > 0.6, "the smallest segment moves most of the way to the typical lift: " + smallShrink);
         assertTrue(largeShrink < 0.5, "the largest segment keeps most of its own lift: " + largeShrink);
     }
@@ -131,9 +133,13 @@ class SegmentedTest {
         return Math.log(p / (1 - p));
     }
 
-    /** SBC (Talts et al. 2018) of the hyperparameters, parameters drawn from the documented hyperpriors. */
-    @Test
-    void simulationBasedCalibration() {
+    /**
+     * SBC (Talts et al. 2018) of the hyperparameters, parameters drawn from the documented hyperpriors, for
+     * both samplers: the scales too, since segment-gibbs moves each of them by a move of its own.
+     */
+    @ParameterizedTest
+    @ValueSource(strings = {"segment-gibbs", "nuts"})
+    void simulationBasedCalibration(String method) {
         UniformRandomProvider rng = RandomStreams.forChain(606, 0);
         ZigguratSampler.NormalizedGaussian g = ZigguratSampler.NormalizedGaussian.of(rng);
         int replications = FULL ? 1000 : 200;
@@ -168,7 +174,7 @@ class SegmentedTest {
             }
             SegmentedSpendData data = simulate(p, mu, sd, users, rng);
             SegmentedPosterior model = new SegmentedPosterior(data, "A", "auto");
-            Draws internal = model.sample("nuts", RunSettings.of(2, 300, 495, 4000 + r).withThreads(1), Progress.NONE,
+            Draws internal = model.sample(method, RunSettings.of(2, 300, 495, 4000 + r).withThreads(1), Progress.NONE,
                     new Cancellation());
             double[] w = {0.25, 0.25, 0.25, 0.25};
             Draws d = model.outputs(internal, w);
@@ -178,9 +184,14 @@ class SegmentedTest {
             sbc.add("E[B]", bigE, Sbc.thin(d.pooled("E[B]"), 99));
             sbc.add("G[B]", bigG, Sbc.thin(d.pooled("G[B]"), 99));
             sbc.add("tauAlpha", tA, Sbc.thin(d.pooled("tauAlpha"), 99));
+            sbc.add("tauD", tD, Sbc.thin(d.pooled("tauD"), 99));
+            sbc.add("tauBeta", tB, Sbc.thin(d.pooled("tauBeta"), 99));
+            sbc.add("tauE", tE, Sbc.thin(d.pooled("tauE"), 99));
+            sbc.add("s0", s0, Sbc.thin(d.pooled("s0"), 99));
+            sbc.add("tauS", tS, Sbc.thin(d.pooled("tauS"), 99));
         }
         for (Map.Entry<String, Sbc.RankHistogram> e : sbc.histograms(10).entrySet()) {
-            assertTrue(e.getValue().uniformAt(0.001), e.getKey() + ": p = " + e.getValue().pValue() + ", counts "
+            assertTrue(e.getValue().uniformAt(0.001), method + ", " + e.getKey() + ": p = " + e.getValue().pValue() + ", counts "
                     + java.util.Arrays.toString(e.getValue().counts()));
         }
     }
