@@ -39,6 +39,39 @@ final class FitCommand implements Callable<Integer> {
     @CommandLine.Spec
     CommandLine.Model.CommandSpec command;
 
+    /**
+     * result.json and the report on this thread while draws.csv (hundreds of megabytes for a large fit) is
+     * written on another: the files are independent, and the draws are immutable.
+     */
+    private void writeAll(FitOutcome outcome, java.nio.file.Path folder) {
+        java.util.concurrent.ExecutorService drawsWriter = java.util.concurrent.Executors.newSingleThreadExecutor(r -> {
+            Thread t = new Thread(r, "cairn-draws-writer");
+            t.setDaemon(true);
+            return t;
+        });
+        try {
+            java.util.concurrent.Future<?> draws = drawsWriter.submit(() -> ResultWriter.writeDraws(outcome, folder));
+            ResultWriter.writeResult(outcome, folder);
+            dev.cairn.cli.report.ReportWriter.write(outcome, spec.getFileName().toString(), folder);
+            try {
+                draws.get();
+            } catch (java.util.concurrent.ExecutionException e) {
+                if (e.getCause() instanceof RuntimeException re) {
+                    throw re;
+                }
+                if (e.getCause() instanceof Error err) {
+                    throw err;
+                }
+                throw new IllegalStateException(e.getCause());
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                throw new java.util.concurrent.CancellationException("interrupted");
+            }
+        } finally {
+            drawsWriter.shutdownNow();
+        }
+    }
+
     @Override
     public Integer call() {
         PrintWriter stdout = command.commandLine().getOut();
@@ -58,8 +91,7 @@ final class FitCommand implements Callable<Integer> {
                 ProgressBar.finish(progress);
             }
             try {
-                ResultWriter.write(outcome, folder.folder());
-                dev.cairn.cli.report.ReportWriter.write(outcome, spec.getFileName().toString(), folder.folder());
+                writeAll(outcome, folder.folder());
                 folder.commit();
             } catch (java.io.UncheckedIOException e) {
                 err.println("cairn fit: cannot write the results into --out " + out + " ("

@@ -68,16 +68,36 @@ public final class KnownVarianceHierarchy {
      * @return the log marginal likelihood
      */
     public double logMarginal(double tau) {
-        NormalMean m = meanGivenTau(tau);
-        double muHat = m.mean();
         double t2 = tau * tau;
-        double lp = 0.5 * Math.log(m.variance());
+        // one pass for the posterior of mu (the precision-weighted mean of the y_j with variances v_j + tau^2)
+        double precision = Double.isInfinite(priorVariance) ? 0 : 1 / priorVariance;
+        double weighted = Double.isInfinite(priorVariance) ? 0 : priorMean / priorVariance;
+        for (int j = 0; j < y.length; j++) {
+            if (Double.isFinite(v[j])) {
+                double w = 1 / (v[j] + t2);
+                precision += w;
+                weighted += y[j] * w;
+            }
+        }
+        double muHat = weighted / precision;
+        // sum log(v_j + tau^2) as the log of products of up to 16 factors: one logarithm per 16 groups (a
+        // product is flushed early before it could leave the range of doubles)
+        double lp = -0.5 * Math.log(precision), product = 1;
+        int factors = 0;
+        double logSum = 0;
         for (int j = 0; j < y.length; j++) {
             if (Double.isFinite(v[j])) {
                 double total = v[j] + t2;
-                lp -= 0.5 * (Math.log(total) + (y[j] - muHat) * (y[j] - muHat) / total);
+                lp -= 0.5 * (y[j] - muHat) * (y[j] - muHat) / total;
+                product *= total;
+                if (++factors == 16 || product < 1e-200 || product > 1e200) {
+                    logSum += Math.log(product);
+                    product = 1;
+                    factors = 0;
+                }
             }
         }
+        lp -= 0.5 * (logSum + Math.log(product));
         if (Double.isFinite(priorVariance)) {
             lp -= (muHat - priorMean) * (muHat - priorMean) / (2 * priorVariance);
         }

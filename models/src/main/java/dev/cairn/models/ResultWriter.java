@@ -29,12 +29,6 @@ public final class ResultWriter {
     }
 
     /**
-     * The result as the JSON of result.json (stable key order, a final newline).
-     *
-     * @param result a model's result
-     * @return the text
-     */
-    /**
      * Any part of a result as the JSON result.json writes for it.
      *
      * @param part a record of the result
@@ -48,6 +42,12 @@ public final class ResultWriter {
         }
     }
 
+    /**
+     * The result as the JSON of result.json (stable key order, a final newline).
+     *
+     * @param result a model's result
+     * @return the text
+     */
     public static String json(FitResult result) {
         try {
             return MAPPER.writeValueAsString(result) + "\n";
@@ -64,9 +64,36 @@ public final class ResultWriter {
      * @throws java.io.UncheckedIOException when a file cannot be written
      */
     public static void write(FitOutcome outcome, Path dir) {
+        writeResult(outcome, dir);
+        writeDraws(outcome, dir);
+    }
+
+    /**
+     * Writes result.json alone, atomically (so that a caller can write draws.csv at the same time).
+     *
+     * @param outcome the fit's result
+     * @param dir     the folder (created when missing)
+     * @throws java.io.UncheckedIOException when the file cannot be written
+     */
+    public static void writeResult(FitOutcome outcome, Path dir) {
         try {
             Files.createDirectories(dir);
             atomically(dir.resolve(RESULT), w -> w.write(json(outcome.result())));
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /**
+     * Writes draws.csv alone, atomically.
+     *
+     * @param outcome the fit's draws
+     * @param dir     the folder (created when missing)
+     * @throws java.io.UncheckedIOException when the file cannot be written
+     */
+    public static void writeDraws(FitOutcome outcome, Path dir) {
+        try {
+            Files.createDirectories(dir);
             atomicallyBytes(dir.resolve(DRAWS), out -> DrawsCsv.write(outcome.draws(), out));
         } catch (IOException e) {
             throw new UncheckedIOException(e);

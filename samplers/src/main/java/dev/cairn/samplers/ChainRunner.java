@@ -70,8 +70,22 @@ public final class ChainRunner {
      * @throws NoStartException when a chain finds no starting point of positive density
      */
     public Draws run(Target target, Sweep sweep, Initializer init) {
-        Parameters p = target.parameters();
-        int d = p.size();
+        return run(target, sweep, init, Recording.coordinates(target.parameters()));
+    }
+
+    /**
+     * The same, keeping of each draw what {@code recording} computes from it (named quantities instead of
+     * the coordinates, say), so that a model with many coordinates does not hold them all.
+     *
+     * @param target    the log density
+     * @param sweep     the steps of one iteration
+     * @param init      the chains' starting points (redrawn while their density is zero)
+     * @param recording what is kept of each draw
+     * @return the kept draws, one column per recorded name
+     * @throws NoStartException when a chain finds no starting point of positive density
+     */
+    public Draws run(Target target, Sweep sweep, Initializer init, Recording recording) {
+        int d = recording.names().size();
         double[][][] out = new double[settings.chains()][d][settings.draws()];
         progress.start(settings.chains(), settings.iterationsPerChain());
         parallel((chain, stop) -> {
@@ -79,7 +93,8 @@ public final class ChainRunner {
             Chain ch = Chain.start(target, sweep, init, chain, rng);
             long total = settings.iterationsPerChain();
             long every = Math.max(1, total / 200);
-            double[] constrained = new double[d];
+            double[] kept = new double[d];
+            Recording.Recorder recorder = recording.start();
             long done = 0;
             for (int t = 0; t < settings.warmup(); t++) {
                 checkCancelled(stop);
@@ -96,14 +111,14 @@ public final class ChainRunner {
                         progress.report(chain, done, total, false);
                     }
                 }
-                p.constrain(ch.state().point(), constrained);
+                recorder.record(ch.state().point(), kept);
                 for (int j = 0; j < d; j++) {
-                    out[chain][j][k] = constrained[j];
+                    out[chain][j][k] = kept[j];
                 }
             }
             progress.report(chain, total, total, false);
         });
-        return Draws.adopt(p.names(), out);
+        return Draws.adopt(recording.names(), out);
     }
 
     /**

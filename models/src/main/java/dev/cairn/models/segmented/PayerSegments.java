@@ -4,6 +4,8 @@ import dev.cairn.samplers.ChainState;
 import dev.cairn.samplers.Step;
 import dev.cairn.samplers.Target;
 import org.apache.commons.rng.UniformRandomProvider;
+import org.apache.commons.rng.sampling.distribution.AhrensDieterMarsagliaTsangGammaSampler;
+import org.apache.commons.rng.sampling.distribution.SharedStateContinuousSampler;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 
 /**
@@ -26,7 +28,7 @@ import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
  */
 final class PayerSegments implements Step {
     static final int DEGREES_OF_FREEDOM = 8;
-    private static final int MAX_NEWTON = 60;
+    private static final int MAX_NEWTON = Integer.getInteger("newton", 60);
     private final SegmentedCells cells;
     private final HierarchicalCells payer;
 
@@ -42,6 +44,7 @@ final class PayerSegments implements Step {
 
     private final class Blocks implements Updater {
         private final ZigguratSampler.NormalizedGaussian normal;
+        private final SharedStateContinuousSampler chiSquares;
         private final UniformRandomProvider rng;
         private final int arms = cells.armCount(), control = cells.control;
         private final SegmentGaussian gauss = new SegmentGaussian(arms, control);
@@ -54,6 +57,8 @@ final class PayerSegments implements Step {
         Blocks(UniformRandomProvider stream) {
             this.rng = stream;
             this.normal = ZigguratSampler.NormalizedGaussian.of(stream);
+            // chi-square with nu degrees of freedom = Gamma(shape nu/2, scale 2)
+            this.chiSquares = AhrensDieterMarsagliaTsangGammaSampler.of(stream, DEGREES_OF_FREEDOM / 2.0, 2);
         }
 
         @Override
@@ -68,11 +73,7 @@ final class PayerSegments implements Step {
                 payer.segmentValues(x, j, eta);
                 centred(eta, u);
                 findMode();
-                double chiSquare = 0;
-                for (int i = 0; i < DEGREES_OF_FREEDOM; i++) {
-                    double g = normal.sample();
-                    chiSquare += g * g;
-                }
+                double chiSquare = chiSquares.sample();
                 for (int k = 0; k < arms; k++) {
                     eps[k] = normal.sample();
                 }

@@ -41,7 +41,6 @@ public final class SegmentedFit {
         SegmentedPosterior model = new SegmentedPosterior(data, control, own.parameterisation());
         RunSettings settings = method.equals(SegmentedPosterior.SEGMENT_GIBBS)
                 ? fitting.settingsWithWarmup(SegmentedPosterior.GIBBS_WARMUP) : fitting.settings(false);
-        Draws internal = model.sample(method, settings, options.progress(), options.cancellation());
 
         long total = 0;
         double[] weights = new double[segments.size()];
@@ -55,7 +54,7 @@ public final class SegmentedFit {
         for (int j = 0; j < weights.length; j++) {
             weights[j] /= total;
         }
-        Draws draws = model.outputs(internal, weights);
+        Draws draws = model.sample(method, settings, options.progress(), options.cancellation(), weights);
         FitSupport.requireFinite(draws, "spend per payer overflows for these data and priors; check the spend "
                 + "values (log-spend sums) or give tighter priors");
         fitting.diagnose(draws);

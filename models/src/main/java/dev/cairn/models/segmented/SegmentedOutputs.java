@@ -2,13 +2,13 @@ package dev.cairn.models.segmented;
 
 import dev.cairn.models.result.Metric;
 
-import dev.cairn.samplers.Draws;
+import dev.cairn.samplers.Recording;
 import java.util.ArrayList;
 import java.util.List;
 
 /**
- * The named quantities of a segmented-spend fit, computed draw by draw from the coordinates (so they are the
- * same whichever parameterisation ran):
+ * The named quantities of a segmented-spend fit, computed draw by draw from the coordinates as the chains
+ * run (so they are the same whichever parameterisation ran, and the coordinates are never stored):
  * <ul>
  *   <li>hyperparameters: alpha0, D[arm], tauAlpha, tauD; with spend beta0, E[arm], G[arm], s0, tauBeta, tauE,
  *       tauS;</li>
@@ -23,7 +23,6 @@ import java.util.List;
 final class SegmentedOutputs {
     static final String TYPICAL = "typical";
     static final String POPULATION = dev.cairn.models.result.Metric.POPULATION;
-    private static final int BLOCK = 32;
 
     private SegmentedOutputs() {
     }
@@ -74,44 +73,30 @@ final class SegmentedOutputs {
         return names;
     }
 
-    static Draws of(Draws internal, SegmentedCells cells, SegmentedLayout layout, double[] weights) {
+    /**
+     * The recording that keeps these quantities of each draw (instead of the coordinates).
+     *
+     * @param cells   the data
+     * @param layout  the coordinates
+     * @param weights per segment, its share of users (sum 1)
+     * @return the recording
+     */
+    static Recording recording(SegmentedCells cells, SegmentedLayout layout, double[] weights) {
         List<String> names = names(cells);
-        int segs = cells.segmentCount(), arms = cells.armCount();
-        int chains = internal.chains(), iterations = internal.iterations(), size = layout.size();
-        double[][][] out = new double[chains][names.size()][iterations];
-        double[][][] columns = new double[size][][];
-        for (int i = 0; i < size; i++) {
-            columns[i] = internal.column(layout.parameters.name(i));
-        }
-        // chains in parallel: each writes only its own slice, so the result does not depend on the threads.
-        // Draws go through in blocks: a block's coordinates are read column by column, its quantities are
-        // computed row by row into a buffer, and the buffer is written out column by column, so that both
-        // the reads and the writes run along the column arrays.
-        int columnCount = names.size();
-        java.util.stream.IntStream.range(0, chains).parallel().forEach(c -> {
-            double[][] xs = new double[BLOCK][size], rows = new double[BLOCK][columnCount];
-            double[] eta = new double[segs * arms], mu = new double[segs * arms], logSigma = new double[segs * arms];
-            double[] popRate = new double[arms], popArpu = new double[arms];
-            for (int first = 0; first < iterations; first += BLOCK) {
-                int count = Math.min(BLOCK, iterations - first);
-                for (int i = 0; i < size; i++) {
-                    double[] column = columns[i][c];
-                    for (int b = 0; b < count; b++) {
-                        xs[b][i] = column[first + b];
-                    }
-                }
-                for (int b = 0; b < count; b++) {
-                    row(xs[b], rows[b], cells, layout, weights, eta, mu, logSigma, popRate, popArpu);
-                }
-                for (int col = 0; col < columnCount; col++) {
-                    double[] target = out[c][col];
-                    for (int b = 0; b < count; b++) {
-                        target[first + b] = rows[b][col];
-                    }
-                }
+        int cellCount = cells.segmentCount() * cells.armCount(), arms = cells.armCount();
+        return new Recording() {
+            @Override
+            public List<String> names() {
+                return names;
             }
-        });
-        return Draws.handOver(names, out);
+
+            @Override
+            public Recorder start() {
+                double[] eta = new double[cellCount], mu = new double[cellCount], logSigma = new double[cellCount];
+                double[] popRate = new double[arms], popArpu = new double[arms];
+                return (x, out) -> row(x, out, cells, layout, weights, eta, mu, logSigma, popRate, popArpu);
+            }
+        };
     }
 
     /**

@@ -9,6 +9,7 @@ import dev.cairn.samplers.NutsStep;
 import dev.cairn.samplers.Progress;
 import dev.cairn.samplers.RunSettings;
 import dev.cairn.samplers.SliceStep;
+import dev.cairn.samplers.Step;
 import dev.cairn.samplers.Sweep;
 
 /**
@@ -49,8 +50,12 @@ final class SegmentedPosterior {
         this.density = new SegmentedDensity(cells, layout);
     }
 
-    /** Runs the chains; the draws are of the coordinates (see {@link SegmentedOutputs} for named quantities). */
-    Draws sample(String method, RunSettings settings, Progress progress, Cancellation cancellation) {
+    /**
+     * Runs the chains, keeping the named quantities of each draw ({@link SegmentedOutputs}).
+     *
+     * @param weights per segment, its share of users (sum 1), for the population quantities
+     */
+    Draws sample(String method, RunSettings settings, Progress progress, Cancellation cancellation, double[] weights) {
         Sweep sweep = switch (method) {
             case "slice" -> Sweep.of(SliceStep.of(1.0));
             case "metropolis-within-gibbs" -> Sweep.of(MetropolisStep.of(0.5));
@@ -60,16 +65,42 @@ final class SegmentedPosterior {
                             NutsStep.of(settings.warmup(), range(layout.payerEnd, layout.size()), 10, 0.8).on(density.part(false)),
                             meanHypers(), new CollapsedSpendLevels(cells, layout), spreadHypers())
                     : Sweep.of(NutsStep.of(settings.warmup()), payerHypers(), payerScale());
-            default -> cells.spend
-                    ? Sweep.of(new PayerSegments(cells, layout.payer), payerHypers(), payerScale(), payerLevelScale(),
-                            new SpendSegments(cells, layout),
-                            meanHypers(),
-                            new CollapsedSpendLevels(cells, layout), new CollapsedSpendEffects(cells, layout),
-                            spreadHypers(), spreadLevelScale())
-                    : Sweep.of(new PayerSegments(cells, layout.payer), payerHypers(), payerScale(), payerLevelScale());
+            default -> Sweep.of(gibbs().toArray(new Step[0]));
         };
         return ChainRunner.of(settings).withProgress(progress).withCancellation(cancellation)
-                .run(density, sweep, (chain, p, rng) -> density.start(rng));
+                .run(density, sweep, (chain, p, rng) -> density.start(rng),
+                        SegmentedOutputs.recording(cells, layout, weights));
+    }
+
+    /**
+     * The segment-gibbs schedule. The partially non-centred scale moves of the levels run only when some
+     * segment's levels are stored non-centred, that is when some segment's data are weak against the
+     * spread between segments; where every segment's data pin its level the centred move of the scale
+     * mixes well on its own.
+     */
+    private java.util.List<Step> gibbs() {
+        java.util.List<Step> steps = new java.util.ArrayList<>(java.util.List.of(new PayerSegments(cells, layout.payer),
+                payerHypers(), payerScale()));
+        if (anyNonCentred(layout.payer)) {
+            steps.add(payerLevelScale());
+        }
+        if (cells.spend) {
+            steps.addAll(java.util.List.of(new SpendSegments(cells, layout), meanHypers(),
+                    new CollapsedSpendLevels(cells, layout), new CollapsedSpendEffects(cells, layout), spreadHypers()));
+            if (anyNonCentred(layout.spread)) {
+                steps.add(spreadLevelScale());
+            }
+        }
+        return steps;
+    }
+
+    private static boolean anyNonCentred(HierarchicalCells structure) {
+        for (boolean nc : structure.levelNc) {
+            if (nc) {
+                return true;
+            }
+        }
+        return false;
     }
 
     private HyperStep payerHypers() {
@@ -100,10 +131,5 @@ final class SegmentedPosterior {
 
     private static int[] range(int from, int to) {
         return java.util.stream.IntStream.range(from, to).toArray();
-    }
-
-    /** The named quantities (hyperparameters, per-cell, typical-segment and population) of internal draws. */
-    Draws outputs(Draws internal, double[] weights) {
-        return SegmentedOutputs.of(internal, cells, layout, weights);
     }
 }

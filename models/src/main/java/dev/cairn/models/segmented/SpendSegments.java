@@ -20,9 +20,9 @@ import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
  *   <li><b>log spread</b> logSigma_j by slice sampling (Neal 2003, Annals of Statistics 31(3)) from
  *       <pre>  -(l - s0)^2 / (2 tauS^2) - M_j l - Q_j e^(-2 l) / 2,
  *  M_j = sum_k m_jk,  Q_j = sum_k SS_jk e^(-2 G_k),  SS_jk = S2_jk - 2 mu_jk S1_jk + m_jk mu_jk^2</pre>
- *       and each arm's shift G_k the same way from the sums over segments; each evaluation is O(1);</li>
- *   <li>then a move along the direction those two leave slow (the arms' shifts against the control's
- *       spread, {@code tilt}).</li>
+ *       and each arm's shift G_k the same way from the sums over segments; each evaluation is O(1)
+ *       (the direction these two leave slow, the arms' shifts against the control's spread, is moved by the
+ *       hyperparameter step's joint move of s0 and the G_k).</li>
  * </ul>
  * Cost O(cells) per sweep.
  */
@@ -52,14 +52,14 @@ final class SpendSegments implements Step {
         private final double[] logSigma = new double[arms], mu = new double[arms];
         /** Per cell, the squared deviations SS_jk of log spend around the cell's mean. */
         private final double[] squares;
-        private final double[] direction, base, slopeCurvature = new double[2];
+        private final double[] armPrecision, levelPrecisions;
 
         Blocks(int size, UniformRandomProvider stream) {
             this.normal = ZigguratSampler.NormalizedGaussian.of(stream);
             this.slice = new LocalSlice(size, 0.5, stream);
             this.squares = new double[segs * arms];
-            this.direction = new double[segs];
-            this.base = new double[segs];
+            this.armPrecision = new double[arms];
+            this.levelPrecisions = new double[segs];
         }
 
         @Override
@@ -108,11 +108,14 @@ final class SpendSegments implements Step {
         private void spreads(double[] x) {
             double s0 = x[spread.levelMean], tau = Math.exp(x[spread.logTauLevel]);
             double levelPrecision = 1 / (tau * tau);
+            for (int k = 0; k < arms; k++) {
+                armPrecision[k] = k == control ? 1 : Math.exp(-2 * x[spread.armMean[k]]);
+            }
             for (int j = 0; j < segs; j++) {
                 double payers = 0, q = 0;
                 for (int k = 0; k < arms; k++) {
                     payers += cells.m[j][k];
-                    q += squares[j * arms + k] * Math.exp(-2 * (k == control ? 0 : x[spread.armMean[k]]));
+                    q += squares[j * arms + k] * armPrecision[k];
                 }
                 double mj = payers, qj = q;
                 double width = 2.5 / Math.sqrt(2 * mj + levelPrecision);
@@ -121,6 +124,9 @@ final class SpendSegments implements Step {
                 logSigma[control] = l;
                 spread.storeSegment(x, j, logSigma);
             }
+            for (int j = 0; j < segs; j++) {
+                levelPrecisions[j] = Math.exp(-2 * spread.level(x, j));
+            }
             for (int k = 0; k < arms; k++) {
                 if (k == control) {
                     continue;
@@ -128,88 +134,12 @@ final class SpendSegments implements Step {
                 double payers = 0, q = 0;
                 for (int j = 0; j < segs; j++) {
                     payers += cells.m[j][k];
-                    q += squares[j * arms + k] * Math.exp(-2 * spread.level(x, j));
+                    q += squares[j * arms + k] * levelPrecisions[j];
                 }
                 double mk = payers, qk = q;
                 slice.update(x, spread.armMean[k], g -> SegmentedLayout.SPREAD.armMean().logDensity(g) - mk * g
                         - 0.5 * qk * Math.exp(-2 * g));
             }
-            if (arms > 1) {
-                tilt(x);
-            }
-        }
-
-        /**
-         * A move along the direction the two updates above leave slow: every arm shift G_k up by delta and every
-         * segment's log spread down by (1 - c_j) delta, c_j the control's share of the segment's payers, so a
-         * segment's payer-weighted log spread stays put while the arms move against the control together.
-         * Proposed by {@link NewtonProposal} (the conditional is log-concave along any line).
-         */
-        private void tilt(double[] x) {
-            for (int j = 0; j < segs; j++) {
-                double payers = 0;
-                for (int k = 0; k < arms; k++) {
-                    payers += cells.m[j][k];
-                }
-                direction[j] = -(1 - (payers > 0 ? cells.m[j][control] / payers : 1.0 / arms));
-                base[j] = spread.level(x, j);
-            }
-            double f0 = along(x, 0);
-            double g0 = slopeCurvature[0], h0 = slopeCurvature[1];
-            if (!(h0 > 0) || !Double.isFinite(f0)) {
-                return;
-            }
-            double delta = NewtonProposal.draw(g0, h0, normal.sample());
-            double f1 = along(x, delta);
-            if (Math.log(slice.rng().nextDouble())
-                    < NewtonProposal.logRatio(f0, g0, h0, f1, slopeCurvature[0], slopeCurvature[1], delta)) {
-                for (int k = 0; k < arms; k++) {
-                    if (k != control) {
-                        x[spread.armMean[k]] += delta;
-                    }
-                }
-                for (int j = 0; j < segs; j++) {
-                    logSigma[control] = base[j] + direction[j] * delta;
-                    spread.storeSegment(x, j, logSigma);
-                }
-            }
-        }
-
-        /** The log conditional at a step delta along the tilt, its slope and minus its curvature in slopeCurvature. */
-        private double along(double[] x, double delta) {
-            double s0 = x[spread.levelMean], tau = Math.exp(x[spread.logTauLevel]);
-            double levelPrecision = 1 / (tau * tau);
-            double sd = SegmentedLayout.SPREAD.armMean().sd(), armPrecision = 1 / (sd * sd);
-            double lp = 0, slope = 0, curvature = 0;
-            for (int k = 0; k < arms; k++) {
-                if (k != control) {
-                    double g = x[spread.armMean[k]] + delta;
-                    lp -= 0.5 * armPrecision * g * g;
-                    slope -= armPrecision * g;
-                    curvature += armPrecision;
-                }
-            }
-            for (int j = 0; j < segs; j++) {
-                double v = direction[j], l = base[j] + v * delta, r = l - s0;
-                lp -= 0.5 * levelPrecision * r * r;
-                slope -= levelPrecision * r * v;
-                curvature += levelPrecision * v * v;
-                for (int k = 0; k < arms; k++) {
-                    double m = cells.m[j][k];
-                    if (m == 0) {
-                        continue;
-                    }
-                    double u = k == control ? v : v + 1;
-                    double cellLog = l + (k == control ? 0 : x[spread.armMean[k]] + delta);
-                    double q = squares[j * arms + k] * Math.exp(-2 * cellLog);
-                    lp += -m * cellLog - 0.5 * q;
-                    slope += (-m + q) * u;
-                    curvature += 2 * q * u * u;
-                }
-            }
-            slopeCurvature[0] = slope;
-            slopeCurvature[1] = curvature;
-            return lp;
         }
     }
 }

@@ -80,11 +80,10 @@ class SegmentedTest {
             }
             SegmentedSpendData data = simulate(p, mu, sd, users, rng);
             SegmentedPosterior model = new SegmentedPosterior(data, "A", "auto");
-            Draws internal = model.sample(method, RunSettings.of(2, 500, 1000, 900 + r).withThreads(1), Progress.NONE,
-                    new Cancellation());
             double[] weights = new double[jn];
             java.util.Arrays.fill(weights, 1.0 / jn);
-            Draws d = model.outputs(internal, weights);
+            Draws d = model.sample(method, RunSettings.of(2, 500, 1000, 900 + r).withThreads(1), Progress.NONE,
+                    new Cancellation(), weights);
             for (int j = 0; j < jn; j++) {
                 String seg = data.segments().get(j);
                 for (int k = 0; k < 2; k++) {
@@ -174,10 +173,9 @@ class SegmentedTest {
             }
             SegmentedSpendData data = simulate(p, mu, sd, users, rng);
             SegmentedPosterior model = new SegmentedPosterior(data, "A", "auto");
-            Draws internal = model.sample(method, RunSettings.of(2, 300, 495, 4000 + r).withThreads(1), Progress.NONE,
-                    new Cancellation());
             double[] w = {0.25, 0.25, 0.25, 0.25};
-            Draws d = model.outputs(internal, w);
+            Draws d = model.sample(method, RunSettings.of(2, 300, 495, 4000 + r).withThreads(1), Progress.NONE,
+                    new Cancellation(), w);
             sbc.add("alpha0", alpha0, Sbc.thin(d.pooled("alpha0"), 99));
             sbc.add("D[B]", bigD, Sbc.thin(d.pooled("D[B]"), 99));
             sbc.add("beta0", beta0, Sbc.thin(d.pooled("beta0"), 99));
