@@ -48,10 +48,10 @@ final class ResultPrinter {
         int width = Math.max(4, d.arms().stream().mapToInt(a -> a.arm().length()).max().orElse(4));
         for (dev.cairn.models.result.Decision.ArmDecision a : d.arms()) {
             String lift = a.lift() == null ? (a.arm().equals(r.control()) ? "control" : "undefined")
-                    : String.format(Locale.ROOT, "lift %s", Numbers.sig(100 * a.lift().median(), 3) + "% ["
-                    + Numbers.sig(100 * a.lift().lo(), 3) + "%, " + Numbers.sig(100 * a.lift().hi(), 3) + "%]");
-            sb.append(String.format(Locale.ROOT, "  %-" + width + "s  expected loss %-34s  P(best) %5.1f%%  %s%n",
-                    a.arm(), metric.amount(a.expectedLoss(), r.currency()), 100 * a.probBest(), lift));
+                    : "lift " + dev.cairn.models.result.Format.lift(a.lift());
+            sb.append(String.format(Locale.ROOT, "  %-" + width + "s  expected loss %-34s  P(best) %7s  %s%n",
+                    a.arm(), metric.amount(a.expectedLoss(), r.currency()),
+                    dev.cairn.models.result.Format.probability(a.probBest()), lift));
         }
         sb.append("  (tolerance ").append(metric.amount(d.tolerance(), r.currency()))
                 .append("default".equals(d.toleranceSource()) ? ", 1% of the control's mean; set decision.tolerance" : ", from the spec")
@@ -72,8 +72,8 @@ final class ResultPrinter {
         if (!r.comparisons().isEmpty()) {
             sb.append('\n');
             for (Comparison c : r.comparisons()) {
-                sb.append(String.format(Locale.ROOT, "  %-12s vs %-12s %-10s  lift %s  P(above) %.3f%n", c.arm(),
-                        c.control(), c.metric(), lift(c), c.probAbove()));
+                sb.append(String.format(Locale.ROOT, "  %-12s vs %-12s %-10s  lift %s  P(above) %s%n", c.arm(),
+                        c.control(), c.metric(), lift(c), dev.cairn.models.result.Format.probability(c.probAbove())));
             }
         }
         warningsAndCautions(sb, r);
@@ -94,7 +94,7 @@ final class ResultPrinter {
             PooledResult.Raw raw = r.raw().get(e.getKey());
             sb.append(String.format(Locale.ROOT, row, e.getKey(),
                     Numbers.sig(raw.estimate(), 3) + " +- " + Numbers.sig(raw.se(), 3), interval(e.getValue(), 3),
-                    String.format(Locale.ROOT, "%.3f", r.probPositive().get(e.getKey()))));
+                    dev.cairn.models.result.Format.probability(r.probPositive().get(e.getKey()))));
         }
         sb.append(String.format(Locale.ROOT, "%nmu (population mean):    %s%n", interval(r.mu(), 3)));
         sb.append(String.format(Locale.ROOT, "tau (between-effect sd): %s%n", interval(r.tau(), 3)));
@@ -131,8 +131,8 @@ final class ResultPrinter {
         sb.append("(* control; install-weighted over cohorts, unreached days projected; ").append(levelLabel(r.interval()))
                 .append(" intervals)\n\nAgainst ").append(r.control()).append(":\n");
         for (Comparison c : r.comparisons()) {
-            sb.append(String.format(Locale.ROOT, "  %-12s %-5s  lift %s  P(above) %.3f%n", c.arm(),
-                    c.metric().toUpperCase(Locale.ROOT), lift(c), c.probAbove()));
+            sb.append(String.format(Locale.ROOT, "  %-12s %-5s  lift %s  P(above) %s%n", c.arm(),
+                    c.metric().toUpperCase(Locale.ROOT), lift(c), dev.cairn.models.result.Format.probability(c.probAbove())));
         }
         if (r.ltv() != null) {
             sb.append(String.format(Locale.ROOT, "%nLTV over %s days:", r.ltv().horizon()));
@@ -242,7 +242,7 @@ final class ResultPrinter {
             sb.append(String.format(Locale.ROOT, row, c.arm() + ("typical-segment".equals(c.scope()) ? " (typical)" : ""),
                     label(c.metric()),
                     lift(c),
-                    String.format(Locale.ROOT, "%.3f", c.probAbove()), dev.cairn.models.result.Format.loss(
+                    dev.cairn.models.result.Format.probability(c.probAbove()), dev.cairn.models.result.Format.loss(
                             dev.cairn.models.result.Metric.of(c.metric()), c.expectedLoss(), r.currency())));
         }
         if (r.segments() != null) {
@@ -253,7 +253,7 @@ final class ResultPrinter {
             sb.append("P(best ").append(label(e.getKey())).append("): ");
             StringBuilder parts = new StringBuilder();
             e.getValue().forEach((arm, p) -> parts.append(parts.length() == 0 ? "" : ", ")
-                    .append(arm).append(' ').append(String.format(Locale.ROOT, "%.3f", p)));
+                    .append(arm).append(' ').append(dev.cairn.models.result.Format.probability(p)));
             sb.append(parts).append('\n');
         }
         long misfits = r.checks().stream().filter(Check::misfit).count();
@@ -281,7 +281,7 @@ final class ResultPrinter {
                 sb.append(String.format(Locale.ROOT, row, e.getKey(), c.arm(), String.format(Locale.ROOT, "%,d", e.getValue().users()),
                         c.rawLift() == null ? "-" : String.format(Locale.ROOT, "%+.1f%%", 100 * c.rawLift()),
                         lift(c),
-                        String.format(Locale.ROOT, "%.3f", c.probAbove())));
+                        dev.cairn.models.result.Format.probability(c.probAbove())));
             }
             if (e.getValue().notes() != null) {
                 e.getValue().notes().forEach(n -> sb.append("    note: ").append(n).append('\n'));

@@ -109,6 +109,12 @@ final class Charts {
 
     /** Overlaid posterior histograms (one series per label), optional vertical markers at values. */
     static String histograms(String title, String xLabel, List<String> names, List<double[]> draws, double[] markers) {
+        return histograms(title, xLabel, names, draws, markers, "observed value");
+    }
+
+    /** The same, the dashed markers named {@code markerLabel} in the legend. */
+    static String histograms(String title, String xLabel, List<String> names, List<double[]> draws, double[] markers,
+                             String markerLabel) {
         List<String> labels = labels(names);
         title = shorten(title, TITLE);
         HistogramDataset data = new HistogramDataset();
@@ -144,7 +150,7 @@ final class Charts {
             for (double m : markers) {
                 plot.addDomainMarker(new ValueMarker(m, INK, dashed));
             }
-            legendWith(plot, line("observed value", INK, dashed));
+            legendWith(plot, line(markerLabel, INK, dashed));
         }
         return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, labels.size() > 1 || markers != null),
                 WIDTH, HEIGHT);
@@ -173,7 +179,7 @@ final class Charts {
         plot.addDomainMarker(band, org.jfree.chart.ui.Layer.BACKGROUND);
         plot.addDomainMarker(new ValueMarker(0, PALETTE[4], new BasicStroke(1.5f)));
         legendWith(plot, new org.jfree.chart.LegendItem("credible interval", new Color(0xd07a2c, false)),
-                line("no change (0)", PALETTE[4], new BasicStroke(1.5f)));
+                line("no change (0%)", PALETTE[4], new BasicStroke(1.5f)));
         svg = svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, true), WIDTH, HEIGHT);
         return svg;
     }
@@ -248,8 +254,17 @@ final class Charts {
      * optionally beside a second set of points (e.g. raw estimates) drawn as hollow markers.
      */
     static String intervals(String title, String yLabel, List<String> names, double[] lo, double[] mid, double[] hi,
-                            double[] raw, String rawLabel, Double reference) {
+                            double[] raw, String rawLabel, Reference reference) {
         return intervals(title, yLabel, names, lo, mid, hi, raw, rawLabel, reference, null);
+    }
+
+    /**
+     * A horizontal reference line and what it means, for the legend.
+     *
+     * @param value where, on the value axis
+     * @param label its legend entry, with the value in the axis' unit (e.g. "no change (0%)")
+     */
+    record Reference(double value, String label) {
     }
 
     /**
@@ -258,7 +273,7 @@ final class Charts {
      * extreme raw estimates cannot squash the intervals.
      */
     static String intervals(String title, String yLabel, List<String> names, double[] lo, double[] mid, double[] hi,
-                            double[] raw, String rawLabel, Double reference, double[] range) {
+                            double[] raw, String rawLabel, Reference reference, double[] range) {
         List<String> labels = labels(names);
         title = shorten(title, TITLE);
         YIntervalSeriesCollection data = new YIntervalSeriesCollection();
@@ -316,8 +331,8 @@ final class Charts {
             plot.setRenderer(1, dots);
         }
         if (reference != null) {
-            plot.addRangeMarker(new ValueMarker(reference, PALETTE[4], new BasicStroke(1f)));
-            legendWith(plot, line("no change (" + Format.sig(reference, 3) + ")", PALETTE[4], new BasicStroke(1f)));
+            plot.addRangeMarker(new ValueMarker(reference.value(), PALETTE[4], new BasicStroke(1f)));
+            legendWith(plot, line(reference.label(), PALETTE[4], new BasicStroke(1f)));
         }
         return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, raw != null || reference != null), WIDTH,
                 labels.size() > 8 ? 340 : HEIGHT);

@@ -153,15 +153,15 @@ public final class HtmlReport {
             double[] x = d.pooled(segmented ? metric.column(Metric.POPULATION, c.arm()) : metric.column(c.arm()));
             double[] base = d.pooled(segmented ? metric.column(Metric.POPULATION, c.control()) : metric.column(c.control()));
             double[] lift = dev.cairn.models.decision.Decisions.liftDraws(x, base);
-            sb.append(Charts.lift(String.format(Locale.ROOT, "%s %s lift: P(above) %.3f", c.arm(), label(c.metric()),
-                    c.probAbove()), lift, c.lift().lo(), c.lift().hi()));
+            sb.append(Charts.lift(String.format(Locale.ROOT, "%s %s lift: P(above) %s", c.arm(), label(c.metric()),
+                    dev.cairn.models.result.Format.probability(c.probAbove())), lift, c.lift().lo(), c.lift().hi()));
         }
         sb.append("</div><table><tr><th>arm</th><th>metric</th><th>scope</th><th>lift median [lo, hi]</th>"
                 + "<th>P(above)</th><th>expected loss</th></tr>");
         for (Comparison c : r.comparisons()) {
             sb.append("<tr><td>").append(esc(c.arm())).append("</td><td>").append(label(c.metric())).append("</td><td>")
                     .append(c.scope() == null ? "" : esc(c.scope())).append("</td><td>").append(pct(c.lift()))
-                    .append("</td><td>").append(fmt(c.probAbove(), 3)).append("</td><td>")
+                    .append("</td><td>").append(dev.cairn.models.result.Format.probability(c.probAbove())).append("</td><td>")
                     .append(esc(dev.cairn.models.result.Format.loss(Metric.of(c.metric()), c.expectedLoss(), r.currency())))
                     .append("</td></tr>");
         }
@@ -173,7 +173,7 @@ public final class HtmlReport {
         for (Map.Entry<String, Map<String, Double>> e : r.probBest().entrySet()) {
             sb.append("<tr><td>").append(label(e.getKey())).append("</td>");
             for (String a : arms) {
-                sb.append("<td>").append(fmt(e.getValue().get(a), 3)).append("</td>");
+                sb.append("<td>").append(dev.cairn.models.result.Format.probability(e.getValue().get(a))).append("</td>");
             }
             sb.append("</tr>");
         }
@@ -186,9 +186,14 @@ public final class HtmlReport {
             for (Check c : r.checks()) {
                 double[] values = outcome.figures().replicated().get(c.arm() + "/" + c.statistic());
                 if (values != null) {
-                    sb.append(Charts.histograms(String.format(Locale.ROOT, "%s: %s (p = %.3f)%s", c.arm(), c.statistic(),
-                                    c.pValue(), c.misfit() ? " MISFIT" : ""), c.statistic(), List.of("replicated"),
-                            List.of(values), new double[] {c.observed()}));
+                    CheckAxis axis = CheckAxis.of(c.statistic(), r.currency());
+                    double[] scaled = values.clone();
+                    for (int i = 0; i < scaled.length; i++) {
+                        scaled[i] *= axis.scale();
+                    }
+                    sb.append(Charts.histograms(String.format(Locale.ROOT, "%s: %s (p = %.3f)%s", c.arm(), axis.name(),
+                                    c.pValue(), c.misfit() ? " MISFIT" : ""), axis.label(), List.of("replicated"),
+                            List.of(scaled), new double[] {c.observed() * axis.scale()}));
                 }
             }
             sb.append("</div></section>\n");
@@ -227,7 +232,8 @@ public final class HtmlReport {
                 double high = Math.max(0, java.util.Arrays.stream(hi).max().orElse(0));
                 double pad = 0.08 * (high - low + 1e-9);
                 sb.append(Charts.intervals(a + ": " + metrics.get(0).label() + " lift by segment (%)", "lift (%)", labels, lo, mid,
-                        hi, raw, "raw (segment alone)", 0.0, new double[] {low - pad, high + pad}));
+                        hi, raw, "raw (segment alone)", new Charts.Reference(0, "no change (0%)"),
+                        new double[] {low - pad, high + pad}));
             }
             sb.append("</div>");
             segmentTable(sb, r, arms, metrics.get(0));
@@ -322,6 +328,25 @@ public final class HtmlReport {
             }
         }
         return out.toString();
+    }
+
+    /**
+     * How a predictive-check statistic reads on its axis: a plain name, the axis label with its unit, and the
+     * factor that turns a share into a percentage.
+     */
+    record CheckAxis(String name, String label, double scale) {
+        static CheckAxis of(String statistic, String currency) {
+            String money = currency != null ? currency : "currency units";
+            return switch (statistic) {
+                case "zeroShare" -> new CheckAxis("share spending nothing", "users who spent nothing (%)", 100);
+                case "meanSpend" -> new CheckAxis("mean spend", "mean spend (" + money + " per user)", 1);
+                case "payerP50" -> new CheckAxis("payers' median spend", "median spend of payers (" + money + ")", 1);
+                case "payerP90" -> new CheckAxis("payers' 90th percentile", "90th percentile of payers' spend (" + money + ")", 1);
+                case "payerP99" -> new CheckAxis("payers' 99th percentile", "99th percentile of payers' spend (" + money + ")", 1);
+                case "maxSpend" -> new CheckAxis("largest spend", "largest spend of one user (" + money + ")", 1);
+                default -> new CheckAxis(statistic, statistic, 1);
+            };
+        }
     }
 
     static String fmt(double v, int decimals) {

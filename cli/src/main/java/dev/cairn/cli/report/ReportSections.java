@@ -36,7 +36,7 @@ final class ReportSections {
         for (dev.cairn.models.result.Decision.ArmDecision a : d.arms()) {
             double loss = metric.unit() == dev.cairn.models.result.Metric.Unit.SHARE ? 100 * a.expectedLoss() : a.expectedLoss();
             sb.append("<tr><td>").append(HtmlReport.esc(a.arm())).append("</td><td>").append(HtmlReport.sig(loss)).append("</td><td>")
-                    .append(HtmlReport.fmt(100 * a.probBest(), 1)).append("%</td><td>")
+                    .append(HtmlReport.esc(dev.cairn.models.result.Format.probability(a.probBest()))).append("</td><td>")
                     .append(a.lift() == null ? (a.arm().equals(r.control()) ? "control" : "undefined") : HtmlReport.pct(a.lift()))
                     .append("</td></tr>");
         }
@@ -74,16 +74,18 @@ final class ReportSections {
             raw[i] = r.raw().get(labels.get(i)).estimate();
         }
         sb.append("<section id=\"effects\"><h2>Effects: pooled beside as given</h2><div class=\"grid\">")
-                .append(Charts.intervals("Effects after pooling", "effect", labels, lo, mid, hi, raw, "as given", r.mu().median()))
-                .append(Charts.histograms("Population mean mu and a new effect", "effect", List.of("mu", "new effect"),
-                        List.of(d.pooled("mu"), d.pooled("predictive")), new double[] {0}))
+                .append(Charts.intervals("Effects after pooling", "effect (the estimates' own unit)", labels, lo, mid, hi, raw,
+                        "as given", new Charts.Reference(r.mu().median(),
+                                "population mean mu, median (" + HtmlReport.sig(r.mu().median()) + ")")))
+                .append(Charts.histograms("Population mean mu and a new effect", "effect (the estimates' own unit)", List.of("mu", "new effect"),
+                        List.of(d.pooled("mu"), d.pooled("predictive")), new double[] {0}, "no effect (0)"))
                 .append(Charts.histograms("Between-effect sd tau", "tau", List.of("tau"), List.of(d.pooled("tau")), null))
                 .append("</div><table><tr><th>effect</th><th>as given</th><th>se</th><th>pooled median [lo, hi]</th>"
                         + "<th>P(&gt; 0)</th></tr>");
         for (String name : labels) {
             sb.append("<tr><td>").append(HtmlReport.esc(name)).append("</td><td>").append(HtmlReport.sig(r.raw().get(name).estimate()))
                     .append("</td><td>").append(HtmlReport.sig(r.raw().get(name).se())).append("</td><td>")
-                    .append(HtmlReport.interval(r.effects().get(name))).append("</td><td>").append(HtmlReport.fmt(r.probPositive().get(name), 3))
+                    .append(HtmlReport.interval(r.effects().get(name))).append("</td><td>").append(HtmlReport.esc(dev.cairn.models.result.Format.probability(r.probPositive().get(name))))
                     .append("</td></tr>");
         }
         sb.append("</table><p class=\"note\">Informed prior for the next test: normal(mean ")
@@ -181,7 +183,7 @@ final class ReportSections {
                 + "<th>expected loss</th></tr>");
         for (Comparison c : comparisons) {
             sb.append("<tr><td>").append(HtmlReport.esc(c.arm())).append("</td><td>").append(HtmlReport.esc(c.metric().toUpperCase(Locale.ROOT)))
-                    .append("</td><td>").append(HtmlReport.pct(c.lift())).append("</td><td>").append(HtmlReport.fmt(c.probAbove(), 3))
+                    .append("</td><td>").append(HtmlReport.pct(c.lift())).append("</td><td>").append(HtmlReport.esc(dev.cairn.models.result.Format.probability(c.probAbove())))
                     .append("</td><td>").append(HtmlReport.esc(dev.cairn.models.result.Format.loss(Metric.of(c.metric()),
                             c.expectedLoss(), currency))).append("</td></tr>");
         }

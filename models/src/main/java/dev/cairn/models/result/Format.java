@@ -58,6 +58,26 @@ public final class Format {
     }
 
     /**
+     * A probability as a percentage with one decimal: "81.1%"; "< 0.1%" and "> 99.9%" at the ends, where the
+     * draws cannot say more.
+     *
+     * @param p the probability, in [0, 1] (NaN: "-")
+     * @return the text
+     */
+    public static String probability(double p) {
+        if (Double.isNaN(p)) {
+            return "-";
+        }
+        if (p < 0.0005) {
+            return "< 0.1%";
+        }
+        if (p > 0.9995) {
+            return "> 99.9%";
+        }
+        return String.format(Locale.ROOT, "%.1f%%", 100 * p);
+    }
+
+    /**
      * A lift interval as signed percentages, or why there is none.
      *
      * @param lift median [lo, hi] as fractions, or null when the control can be 0
