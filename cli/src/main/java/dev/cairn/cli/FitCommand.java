@@ -14,21 +14,32 @@ import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Parameters;
 
-/** {@code cairn fit SPEC.json --out DIR}: fit a spec and write result.json and draws.csv. */
+/**
+ * {@code cairn fit SPEC.json --out DIR}: fit a spec and write result.json, draws.csv and report.html; with
+ * {@code --json} result.json goes to standard output instead (or as well), and {@code -} as the spec reads it
+ * from standard input, so that a program in any language can pipe a spec in and a result out.
+ */
 @Command(name = "fit",
         mixinStandardHelpOptions = true,
         description = {
             "Fit the model a spec describes and write DIR/result.json, DIR/draws.csv and DIR/report.html.",
+            "With --json, result.json is written to standard output (nothing else goes there; non-ASCII text is "
+                + "escaped, so any reader's encoding works); the files are written only when --out is given too. "
+                + "SPEC.json '-' reads the spec from standard input (relative data paths then resolve against the "
+                + "working folder).",
             "Exit code 0: converged; 2: bad spec or data (nothing written); 3: fitted but not converged "
                 + "(files written with \"converged\": false); 1: internal error."
         })
 final class FitCommand implements Callable<Integer> {
 
-    @Parameters(index = "0", paramLabel = "SPEC.json", description = "The spec (see: cairn schema).")
+    @Parameters(index = "0", paramLabel = "SPEC.json", description = "The spec (see: cairn schema); - reads it from standard input.")
     Path spec;
 
-    @Option(names = "--out", paramLabel = "DIR", required = true, description = "Folder for result.json and draws.csv.")
+    @Option(names = "--out", paramLabel = "DIR", description = "Folder for result.json, draws.csv and report.html.")
     Path out;
+
+    @Option(names = "--json", description = "Write result.json to standard output (and nothing else there).")
+    boolean json;
 
     @Option(names = "--threads", paramLabel = "N", description = "Worker threads (results do not depend on it).")
     Integer threads;
@@ -80,34 +91,62 @@ final class FitCommand implements Callable<Integer> {
             err.println("cairn fit: --threads must be >= 1, was " + threads);
             return ExitCodes.BAD_INPUT;
         }
+        if (out == null && !json) {
+            err.println("cairn fit: say where the result goes: --out DIR (files) or --json (result.json on standard output)");
+            return ExitCodes.BAD_INPUT;
+        }
         FitOutcome outcome;
         dev.cairn.samplers.Progress progress = ProgressBar.forTerminal(quiet, "fitting");
-        try (OutputFolder folder = OutputFolder.claim(out)) {
+        try (OutputFolder folder = out == null ? null : OutputFolder.claim(out)) {
             try {
                 FitOptions options = (threads == null ? FitOptions.DEFAULT : FitOptions.DEFAULT.withThreads(threads))
                         .withProgress(progress);
-                outcome = Cairn.fit(spec, options);
+                outcome = fromStandardInput() ? Cairn.fit(readStandardInput(), Path.of("").toAbsolutePath(), options)
+                        : Cairn.fit(spec, options);
             } finally {
                 ProgressBar.finish(progress);
             }
-            try {
-                writeAll(outcome, folder.folder());
-                folder.commit();
-            } catch (java.io.UncheckedIOException e) {
-                err.println("cairn fit: cannot write the results into --out " + out + " ("
-                        + Messages.ioReason(e.getCause()) + "); the previous results there are unchanged");
-                return ExitCodes.BAD_INPUT;
+            if (folder != null) {
+                try {
+                    writeAll(outcome, folder.folder());
+                    folder.commit();
+                } catch (java.io.UncheckedIOException e) {
+                    err.println("cairn fit: cannot write the results into --out " + out + " ("
+                            + Messages.ioReason(e.getCause()) + "); the previous results there are unchanged");
+                    return ExitCodes.BAD_INPUT;
+                }
             }
         } catch (InputException e) {
             err.println("cairn fit: " + e.getMessage());
             return ExitCodes.BAD_INPUT;
         }
-        if (!quiet) {
+        if (json) {
+            stdout.print(ResultWriter.asciiJson(outcome.result()));
+            stdout.flush();
+        } else if (!quiet) {
             stdout.print(ResultPrinter.print(outcome.result()));
             stdout.println("\nWrote " + out.resolve(ResultWriter.RESULT) + ", " + out.resolve(ResultWriter.DRAWS) + " and "
                     + out.resolve(dev.cairn.cli.report.ReportWriter.REPORT));
             stdout.flush();
         }
         return outcome.result().converged() ? ExitCodes.OK : ExitCodes.NOT_CONVERGED;
+    }
+
+    private boolean fromStandardInput() {
+        return spec.toString().equals("-");
+    }
+
+    /** The spec as JSON text on standard input (UTF-8, as RFC 8259 has it). */
+    private static dev.cairn.models.spec.Spec readStandardInput() {
+        String text;
+        try {
+            text = new String(System.in.readAllBytes(), java.nio.charset.StandardCharsets.UTF_8);
+        } catch (java.io.IOException e) {
+            throw new InputException("standard input: cannot be read (" + Messages.ioReason(e) + ")");
+        }
+        if (text.isBlank()) {
+            throw new InputException("standard input: no spec (SPEC.json '-' reads the spec from standard input)");
+        }
+        return dev.cairn.models.spec.SpecReader.parse(text, "standard input");
     }
 }

@@ -43,6 +43,22 @@ public final class ResultWriter {
     }
 
     /**
+     * The same JSON with every non-ASCII character escaped (\\uXXXX): identical once parsed, and readable
+     * whatever encoding a reader of a pipe assumes.
+     *
+     * @param result a model's result
+     * @return the text, ASCII only, with a final newline
+     */
+    public static String asciiJson(FitResult result) {
+        try {
+            return MAPPER.writer().with(com.fasterxml.jackson.core.json.JsonWriteFeature.ESCAPE_NON_ASCII)
+                    .writeValueAsString(result) + "\n";
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /**
      * The result as the JSON of result.json (stable key order, a final newline).
      *
      * @param result a model's result
