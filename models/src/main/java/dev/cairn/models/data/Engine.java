@@ -41,10 +41,9 @@ public final class Engine {
     public static Connection open(boolean ordered, DataFile... files) throws SQLException {
         Connection db;
         try {
-            db = DriverManager.getConnection(URL);
+            db = connect();
         } catch (UnsatisfiedLinkError | ExceptionInInitializerError | NoClassDefFoundError e) {
-            throw new dev.cairn.models.InputException("cannot start the embedded SQL engine: its native library does not "
-                    + "load on this machine (" + e.getClass().getSimpleName() + ": " + e.getMessage() + ")");
+            throw new dev.cairn.models.InputException(missingLibrary());
         }
         try (Statement s = db.createStatement()) {
             String folder = spillFolder();
@@ -65,6 +64,50 @@ public final class Engine {
             throw e;
         }
         return db;
+    }
+
+    private static boolean loaded;
+
+    /**
+     * The first connection loads the engine's native library; when that fails, the driver prints its own stack
+     * trace to standard error before throwing, which the one line of {@link #missingLibrary} replaces (standard
+     * error is held back for that first attempt only; nothing else runs yet).
+     */
+    private static Connection connect() throws SQLException {
+        synchronized (Engine.class) {
+            if (!loaded) {
+                java.io.PrintStream err = System.err;
+                System.setErr(new java.io.PrintStream(java.io.OutputStream.nullOutputStream()));
+                try {
+                    Connection first = DriverManager.getConnection(URL);
+                    loaded = true;
+                    return first;
+                } finally {
+                    System.setErr(err);
+                }
+            }
+        }
+        return DriverManager.getConnection(URL);
+    }
+
+    /** What is missing and what to do, naming the file the driver looks for and the folder it looks in. */
+    static String missingLibrary() {
+        String os = System.getProperty("os.name", "").toLowerCase(java.util.Locale.ROOT);
+        String arch = System.getProperty("os.arch", "");
+        String file = "libduckdb_java.so_" + (os.contains("mac") ? "macos" : os.contains("win") ? "windows" : "linux") + "_"
+                + (arch.equals("aarch64") || arch.equals("arm64") ? "arm64" : "amd64");
+        String where = "the folder of the jar";
+        try {
+            java.security.CodeSource code = Engine.class.getProtectionDomain().getCodeSource();
+            if (code != null) {
+                where = Path.of(code.getLocation().toURI()).getParent().toString();
+            }
+        } catch (java.net.URISyntaxException | RuntimeException e) {
+            // keep the general wording
+        }
+        return "cannot start the embedded SQL engine: its native library (" + file + " for this machine) is not in "
+                + where + "; copy the libduckdb_java.so_* files from cli/target/ next to cairn-all.jar, or run ./cairn "
+                + "from the repository";
     }
 
     private static synchronized String spillFolder() throws SQLException {
