@@ -28,6 +28,16 @@ public record Spec(
             .enable(com.fasterxml.jackson.databind.DeserializationFeature.FAIL_ON_NULL_FOR_PRIMITIVES);
 
     /**
+     * A spec built in code and validated as a spec file is (see {@link SpecBuilder}).
+     *
+     * @param model the model name
+     * @return a builder
+     */
+    public static SpecBuilder builder(String model) {
+        return SpecBuilder.of(model);
+    }
+
+    /**
      * The same spec holding the JSON it was read from (its models read their own options from it).
      *
      * @param source the spec's JSON object
