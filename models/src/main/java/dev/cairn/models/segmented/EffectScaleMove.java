@@ -92,10 +92,8 @@ final class EffectScaleMove implements Step {
                         continue;
                     }
                     int c = j * arms + k;
-                    double a = x[s.armMean[k]], w = precision[c];
-                    double v = 1 / (1 / (tau * tau) + w);
-                    double m = v * (a / (tau * tau) + w * (estimate[c] - level));
-                    zeta[c] = (values[c] - level - m) / Math.sqrt(v);
+                    double v = variance(c, tau);
+                    zeta[c] = (values[c] - level - centre(x, c, k, level, tau, v)) / Math.sqrt(v);
                 }
             }
             l = walk.move(v -> density(x, v), l, PROPOSALS, adapt);
@@ -114,11 +112,20 @@ final class EffectScaleMove implements Step {
             state.invalidate();
         }
 
+        /** s_jk^2 at scale tau. */
+        private double variance(int c, double tau) {
+            return 1 / (1 / (tau * tau) + precision[c]);
+        }
+
+        /** m_jk at scale tau, given v = s_jk^2 at that scale. */
+        private double centre(double[] x, int c, int k, double level, double tau, double v) {
+            return v * (x[s.armMean[k]] / (tau * tau) + precision[c] * (estimate[c] - level));
+        }
+
         /** d_jk at scale tau from the held zeta. */
         private double effect(double[] x, int c, int k, double level, double tau) {
-            double a = x[s.armMean[k]], w = precision[c];
-            double v = 1 / (1 / (tau * tau) + w);
-            return v * (a / (tau * tau) + w * (estimate[c] - level)) + Math.sqrt(v) * zeta[c];
+            double v = variance(c, tau);
+            return centre(x, c, k, level, tau, v) + Math.sqrt(v) * zeta[c];
         }
 
         /** The log density of log tau with zeta held (constants dropped). */
@@ -131,10 +138,9 @@ final class EffectScaleMove implements Step {
                         continue;
                     }
                     int c = j * arms + k;
-                    double a = x[s.armMean[k]], w = precision[c];
-                    double v = 1 / (1 / (tau * tau) + w);
-                    double d = v * (a / (tau * tau) + w * (estimate[c] - level)) + Math.sqrt(v) * zeta[c];
-                    double r = (d - a) / tau;
+                    double v = variance(c, tau);
+                    double d = centre(x, c, k, level, tau, v) + Math.sqrt(v) * zeta[c];
+                    double r = (d - x[s.armMean[k]]) / tau;
                     lp += -0.5 * r * r - l + 0.5 * Math.log(v) + likelihood.at(prepared, c, level + d);
                 }
             }
