@@ -9,8 +9,8 @@ import java.util.Locale;
 /**
  * segmented-spend at a studio's sizes: 10, 50, 200 and 500 segments x 3 and 5 arms of the invented
  * {@link StudioScaleScenario} (summary tables, cell sizes spread log-normally from 50 to 500,000 users,
- * small cells with 0-2 payers), fitted in this process with default settings (4 chains x 1,000 warmup +
- * 1,000 draws, NUTS). Prints wall time, convergence, min bulk- and tail-ESS, min bulk-ESS per second, and
+ * small cells with 0-2 payers), fitted in this process with default settings (4 chains x 300 warmup +
+ * 1,000 draws, segment-gibbs). Prints wall time, convergence, min bulk- and tail-ESS, min bulk-ESS per second, and
  * seconds per effective draw per cell (flat when the cost of an effective draw grows linearly in cells).
  * The first configuration is run twice and the first run dropped (JIT warm-up).
  * Run: {@code java -cp bench/target/benchmarks.jar dev.cairn.bench.SegmentedScaling [DIR] [SEGMENTS...]}
