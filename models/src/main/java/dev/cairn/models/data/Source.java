@@ -146,6 +146,48 @@ final class Source {
         return columns;
     }
 
+    /** Refuses an inline value of the wrong type for its column's engine type (null and absent pass). */
+    private static void checkValue(JsonNode v, String type, String where) {
+        if (v == null || v.isNull()) {
+            return;
+        }
+        if (type.equals("DOUBLE") && !v.isNumber()) {
+            throw new InputException("spec: " + where + ": expected a number, found " + v);
+        }
+        if (type.equals("BOOLEAN") && !(v.isBoolean() || (v.isIntegralNumber() && (v.intValue() == 0 || v.intValue() == 1)))) {
+            throw new InputException("spec: " + where + ": expected true/false or 1/0, found " + v);
+        }
+        if (type.equals("VARCHAR") && !v.isValueNode()) {
+            throw new InputException("spec: " + where + ": expected a text or number, found " + v);
+        }
+    }
+
+    /**
+     * Inline rows read without the engine: their columns in order of first appearance and every value checked
+     * against its column's type, as {@link #inline} checks them; there is no relation to query.
+     */
+    static Source inlineColumns(DataSpec data, Function<String, String> typeOf) {
+        List<JsonNode> rows = data.rows();
+        List<String> columns = new ArrayList<>();
+        for (JsonNode row : rows) {
+            row.fieldNames().forEachRemaining(f -> {
+                if (!columns.contains(f)) {
+                    columns.add(f);
+                }
+            });
+        }
+        Map<String, String> types = new LinkedHashMap<>();
+        for (String c : columns) {
+            types.put(c, typeOf.apply(c));
+        }
+        for (int i = 0; i < rows.size(); i++) {
+            for (Map.Entry<String, String> e : types.entrySet()) {
+                checkValue(rows.get(i).get(e.getKey()), e.getValue(), "/data/rows/" + i + "/" + e.getKey());
+            }
+        }
+        return new Source("inline rows", null, columns, false, "/data/rows", null);
+    }
+
     /** Inline rows become a temporary table; each JSON value must have the type its column needs. */
     static Source inline(Connection db, DataSpec data, Function<String, String> typeOf) throws SQLException {
         List<JsonNode> rows = data.rows();
@@ -181,22 +223,14 @@ final class Source {
                 for (Map.Entry<String, String> e : types.entrySet()) {
                     JsonNode v = row.get(e.getKey());
                     String where = "/data/rows/" + i + "/" + e.getKey();
+                    checkValue(v, e.getValue(), where);
                     if (v == null || v.isNull()) {
                         append.appendNull();
                     } else if (e.getValue().equals("DOUBLE")) {
-                        if (!v.isNumber()) {
-                            throw new InputException("spec: " + where + ": expected a number, found " + v);
-                        }
                         append.append(v.doubleValue());
                     } else if (e.getValue().equals("BOOLEAN")) {
-                        if (!(v.isBoolean() || (v.isIntegralNumber() && (v.intValue() == 0 || v.intValue() == 1)))) {
-                            throw new InputException("spec: " + where + ": expected true/false or 1/0, found " + v);
-                        }
                         append.append(v.isBoolean() ? v.booleanValue() : v.intValue() == 1);
                     } else {
-                        if (!v.isValueNode()) {
-                            throw new InputException("spec: " + where + ": expected a text or number, found " + v);
-                        }
                         append.append(v.asText());
                     }
                 }

@@ -28,9 +28,14 @@ final class SummaryLayout {
     private SummaryLayout() {
     }
 
-    static SpendDataReader.Cells read(Connection db, Source source, DataSpec data, String segment) throws SQLException {
-        String segmentExpr = segment == null ? null : "trim(CAST(" + Sql.identifier(segment) + " AS VARCHAR))";
-        List<String> segments = new ArrayList<>();
+    /** The layout's columns as the data name them (s1, s2 null for conversions only). */
+    private record Columns(String arm, String users, String payers, String s1, String s2) {
+        boolean hasSpend() {
+            return s1 != null;
+        }
+    }
+
+    private static Columns columns(Source source, DataSpec data, String segment) {
         String arm = source.require(data, ARM, ARM);
         String users = source.require(data, USERS, USERS);
         String payers = source.require(data, PAYERS, PAYERS);
@@ -41,35 +46,80 @@ final class SummaryLayout {
             throw new InputException(source.name + ": give both '" + data.column("logSpendSum", LOG_SUM) + "' and '"
                     + data.column("logSpendSqSum", LOG_SQ_SUM) + "' for spend, or neither for conversions only");
         }
-        boolean hasSpend = s1 != null;
-        String armExpr = "trim(CAST(" + Sql.identifier(arm) + " AS VARCHAR))";
+        return new Columns(arm, users, payers, s1, s2);
+    }
+
+    /** One row's values as the rules read them: text trimmed of spaces, numbers as doubles, absent as null. */
+    private record Row(String arm, String segment, Double n, Double m, Double a, Double b) {
+    }
+
+    /**
+     * A row rule in both forms, the engine's SQL condition and the same test in Java (for inline rows read
+     * without the engine), with the column it names and what is wrong. Kept in one table so the two paths
+     * check the same things, in the same order, with the same words.
+     */
+    private record Rule(String sql, java.util.function.Predicate<Row> test, String column, String what) {
+    }
+
+    private static List<Rule> rules(Columns c, DataSpec data, String segment, String armExpr, String segmentExpr) {
+        String n = "CAST(" + Sql.identifier(c.users()) + " AS DOUBLE)";
+        String m = "CAST(" + Sql.identifier(c.payers()) + " AS DOUBLE)";
+        boolean spend = c.hasSpend();
+        String a = spend ? "CAST(" + Sql.identifier(c.s1()) + " AS DOUBLE)" : "0.0";
+        String b = spend ? "CAST(" + Sql.identifier(c.s2()) + " AS DOUBLE)" : "0.0";
+        String sum = data.column("logSpendSum", LOG_SUM), sq = data.column("logSpendSqSum", LOG_SQ_SUM);
+        // Java forms follow SQL's rule that a comparison with NULL is not true
+        return List.of(
+            new Rule(armExpr + " IS NULL OR " + armExpr + " = ''", r -> r.arm() == null || r.arm().isEmpty(),
+                c.arm(), "arm is empty"),
+            new Rule(segmentExpr == null ? "false" : segmentExpr + " IS NULL OR " + segmentExpr + " = ''",
+                r -> segment != null && (r.segment() == null || r.segment().isEmpty()), segment, "segment is empty"),
+            new Rule(n + " IS NULL OR " + m + " IS NULL", r -> r.n() == null || r.m() == null,
+                c.users() + "/" + c.payers(), "users and payers must be given"),
+            new Rule("isnan(" + n + ") OR isinf(" + n + ") OR " + n + " <> floor(" + n + ")",
+                r -> r.n() != null && !(Double.isFinite(r.n()) && r.n() == Math.floor(r.n())), c.users(),
+                "users must be a whole number"),
+            new Rule("isnan(" + m + ") OR isinf(" + m + ") OR " + m + " <> floor(" + m + ")",
+                r -> r.m() != null && !(Double.isFinite(r.m()) && r.m() == Math.floor(r.m())), c.payers(),
+                "payers must be a whole number"),
+            new Rule(n + " < 0 OR " + m + " < 0", r -> (r.n() != null && r.n() < 0) || (r.m() != null && r.m() < 0),
+                c.users() + "/" + c.payers(), "users and payers must be >= 0"),
+            new Rule(m + " > " + n, r -> r.n() != null && r.m() != null && r.m() > r.n(), c.payers(),
+                "payers must not exceed users"),
+            new Rule(spend ? "(" + m + " > 0 AND (" + a + " IS NULL OR " + b + " IS NULL))" : "false",
+                r -> spend && r.m() != null && r.m() > 0 && (r.a() == null || r.b() == null), sum,
+                "log-spend sums are needed where payers > 0"),
+            new Rule(spend ? "isnan(" + a + ") OR isinf(" + a + ") OR isnan(" + b + ") OR isinf(" + b + ")" : "false",
+                r -> spend && ((r.a() != null && !Double.isFinite(r.a())) || (r.b() != null && !Double.isFinite(r.b()))),
+                sum, "log-spend sums must be finite numbers"),
+            new Rule(spend ? "(" + m + " > 0 AND " + b + " < " + a + " * " + a + " / " + m + " - 1e-9 * abs(" + b + "))"
+                    : "false",
+                r -> spend && r.m() != null && r.m() > 0 && r.a() != null && r.b() != null
+                        && r.b() < r.a() * r.a() / r.m() - 1e-9 * Math.abs(r.b()), sq,
+                "log_spend_sq_sum is smaller than log_spend_sum^2 / payers, which no data can give"),
+            new Rule(spend ? "(" + m + " = 0 AND (coalesce(" + a + ", 0) <> 0 OR coalesce(" + b + ", 0) <> 0))" : "false",
+                r -> spend && r.m() != null && r.m() == 0 && ((r.a() != null && r.a() != 0) || (r.b() != null && r.b() != 0)),
+                sum, "log-spend sums must be 0 where payers = 0"));
+    }
+
+    static SpendDataReader.Cells read(Connection db, Source source, DataSpec data, String segment) throws SQLException {
+        String segmentExpr = segment == null ? null : "trim(CAST(" + Sql.identifier(segment) + " AS VARCHAR))";
+        List<String> segments = new ArrayList<>();
+        Columns c = columns(source, data, segment);
+        boolean hasSpend = c.hasSpend();
+        String armExpr = "trim(CAST(" + Sql.identifier(c.arm()) + " AS VARCHAR))";
         // Counts are read as numbers and checked to be whole, so 100.5 users is refused rather than rounded.
-        String n = "CAST(" + Sql.identifier(users) + " AS DOUBLE)";
-        String m = "CAST(" + Sql.identifier(payers) + " AS DOUBLE)";
-        String a = hasSpend ? "CAST(" + Sql.identifier(s1) + " AS DOUBLE)" : "0.0";
-        String b = hasSpend ? "CAST(" + Sql.identifier(s2) + " AS DOUBLE)" : "0.0";
+        String n = "CAST(" + Sql.identifier(c.users()) + " AS DOUBLE)";
+        String m = "CAST(" + Sql.identifier(c.payers()) + " AS DOUBLE)";
+        String a = hasSpend ? "CAST(" + Sql.identifier(c.s1()) + " AS DOUBLE)" : "0.0";
+        String b = hasSpend ? "CAST(" + Sql.identifier(c.s2()) + " AS DOUBLE)" : "0.0";
         // Row checks first: summary tables are small, and a bad row must be named, not summed away.
-        String[][] rules = {
-            {armExpr + " IS NULL OR " + armExpr + " = ''", arm, "arm is empty"},
-            {segmentExpr == null ? "false" : segmentExpr + " IS NULL OR " + segmentExpr + " = ''", segment, "segment is empty"},
-            {n + " IS NULL OR " + m + " IS NULL", users + "/" + payers, "users and payers must be given"},
-            {"isnan(" + n + ") OR isinf(" + n + ") OR " + n + " <> floor(" + n + ")", users,
-                "users must be a whole number"},
-            {"isnan(" + m + ") OR isinf(" + m + ") OR " + m + " <> floor(" + m + ")", payers,
-                "payers must be a whole number"},
-            {n + " < 0 OR " + m + " < 0", users + "/" + payers, "users and payers must be >= 0"},
-            {m + " > " + n, payers, "payers must not exceed users"},
-            {hasSpend ? "(" + m + " > 0 AND (" + a + " IS NULL OR " + b + " IS NULL))" : "false",
-                data.column("logSpendSum", LOG_SUM), "log-spend sums are needed where payers > 0"},
-            {hasSpend ? "isnan(" + a + ") OR isinf(" + a + ") OR isnan(" + b + ") OR isinf(" + b + ")" : "false",
-                data.column("logSpendSum", LOG_SUM), "log-spend sums must be finite numbers"},
-            {hasSpend ? "(" + m + " > 0 AND " + b + " < " + a + " * " + a + " / " + m + " - 1e-9 * abs(" + b + "))" : "false",
-                data.column("logSpendSqSum", LOG_SQ_SUM),
-                "log_spend_sq_sum is smaller than log_spend_sum^2 / payers, which no data can give"},
-            {hasSpend ? "(" + m + " = 0 AND (coalesce(" + a + ", 0) <> 0 OR coalesce(" + b + ", 0) <> 0))" : "false",
-                data.column("logSpendSum", LOG_SUM), "log-spend sums must be 0 where payers = 0"},
-        };
-        source.check(db, rules);
+        List<Rule> rules = rules(c, data, segment, armExpr, segmentExpr);
+        String[][] sqlRules = new String[rules.size()][];
+        for (int i = 0; i < rules.size(); i++) {
+            sqlRules[i] = new String[] {rules.get(i).sql(), rules.get(i).column(), rules.get(i).what()};
+        }
+        source.check(db, sqlRules);
         // Several rows of one arm are added in increasing order of value, so sums do not depend on threads.
         String query = """
                 SELECT %1$s,
@@ -100,9 +150,116 @@ final class SummaryLayout {
         if (rows == 0) {
             throw new InputException(source.name + ": no data rows" + (source.csv ? " after the header" : ""));
         }
-        List<String> warnings = hasSpend ? List.of() : List.of(conversionOnly(source.name + " has no log-spend sums ('"
+        return new SpendDataReader.Cells(segments, arms, hasSpend, source.name, rows, warnings(source, data, hasSpend),
+                source.shown(query));
+    }
+
+    private static List<String> warnings(Source source, DataSpec data, boolean hasSpend) {
+        return hasSpend ? List.of() : List.of(conversionOnly(source.name + " has no log-spend sums ('"
                 + data.column("logSpendSum", LOG_SUM) + "', '" + data.column("logSpendSqSum", LOG_SQ_SUM) + "')"));
-        return new SpendDataReader.Cells(segments, arms, hasSpend, source.name, rows, warnings, source.shown(query));
+    }
+
+    /**
+     * The same layout from inline rows without the SQL engine (a program that passes statistics in memory,
+     * or a jar without the engine's native library): the same column checks, the same rules in the same order
+     * with the same messages, and the same sums (rows of one cell added in increasing order of value), so the
+     * statistics equal the engine's. There is no query to show.
+     *
+     * @param data      the data block with inline rows of the summary layout
+     * @param segmented whether a segment column is read (segmented-spend)
+     * @return the cells
+     * @throws InputException naming the row and column, as the engine's path does
+     */
+    static SpendDataReader.Cells readInline(DataSpec data, boolean segmented) {
+        Source source = Source.inlineColumns(data, c -> SpendDataReader.typeOf(c, data));
+        String segment = segmented ? source.require(data, SpendDataReader.SEGMENT, SpendDataReader.SEGMENT) : null;
+        Columns c = columns(source, data, segment);
+        List<com.fasterxml.jackson.databind.JsonNode> rows = data.rows();
+        List<Row> values = new ArrayList<>(rows.size());
+        for (com.fasterxml.jackson.databind.JsonNode r : rows) {
+            values.add(new Row(text(r.get(c.arm())), segment == null ? null : text(r.get(segment)), number(r.get(c.users())),
+                    number(r.get(c.payers())), c.hasSpend() ? number(r.get(c.s1())) : Double.valueOf(0),
+                    c.hasSpend() ? number(r.get(c.s2())) : Double.valueOf(0)));
+        }
+        for (Rule rule : rules(c, data, segment, null, null)) {
+            List<String> where = new ArrayList<>();
+            long count = 0;
+            for (int i = 0; i < values.size(); i++) {
+                if (rule.test().test(values.get(i))) {
+                    count++;
+                    if (where.size() < 3) {
+                        where.add("/data/rows/" + i);
+                    }
+                }
+            }
+            if (count > 0) {
+                throw new InputException("spec: " + String.join(", ", where)
+                        + (count > where.size() ? " and " + (count - where.size()) + " more" : "") + ", '" + rule.column()
+                        + "': " + rule.what());
+            }
+        }
+        // cells in key order (segment, then arm), sums over a cell's rows in increasing order of value
+        java.util.TreeMap<List<String>, List<Row>> cells = new java.util.TreeMap<>((x, y) -> {
+            int k = x.get(0).compareTo(y.get(0));
+            return k != 0 ? k : x.get(1).compareTo(y.get(1));
+        });
+        for (Row r : values) {
+            cells.computeIfAbsent(List.of(r.segment() == null ? "" : r.segment(), r.arm()), k -> new ArrayList<>()).add(r);
+        }
+        List<String> segments = new ArrayList<>();
+        List<ArmStats> arms = new ArrayList<>();
+        for (java.util.Map.Entry<List<String>, List<Row>> e : cells.entrySet()) {
+            long users = 0, payers = 0;
+            double[] s1 = new double[e.getValue().size()], s2 = new double[s1.length];
+            for (int i = 0; i < s1.length; i++) {
+                Row r = e.getValue().get(i);
+                users += r.n().longValue();
+                payers += r.m().longValue();
+                s1[i] = r.a() == null ? 0 : r.a();
+                s2[i] = r.b() == null ? 0 : r.b();
+            }
+            segments.add(segment == null ? null : e.getKey().get(0));
+            String arm = e.getKey().get(1);
+            arms.add(c.hasSpend() ? ArmStats.summary(arm, users, payers, ordered(s1), ordered(s2))
+                    : ArmStats.conversions(arm, users, payers));
+        }
+        if (values.isEmpty()) {
+            throw new InputException(source.name + ": no data rows");
+        }
+        // rows as the engine's path counts them: the cells its grouped query returns
+        return new SpendDataReader.Cells(segments, arms, c.hasSpend(), source.name, arms.size(),
+                warnings(source, data, c.hasSpend()), null);
+    }
+
+    /** A text value as the engine casts and trims it (spaces only); null when absent. */
+    private static String text(com.fasterxml.jackson.databind.JsonNode v) {
+        if (v == null || v.isNull()) {
+            return null;
+        }
+        String t = v.asText();
+        int from = 0, to = t.length();
+        while (from < to && t.charAt(from) == ' ') {
+            from++;
+        }
+        while (to > from && t.charAt(to - 1) == ' ') {
+            to--;
+        }
+        return t.substring(from, to);
+    }
+
+    private static Double number(com.fasterxml.jackson.databind.JsonNode v) {
+        return v == null || v.isNull() ? null : v.doubleValue();
+    }
+
+    /** The sum of the values in increasing order. */
+    private static double ordered(double[] values) {
+        double[] sorted = values.clone();
+        java.util.Arrays.sort(sorted);
+        double sum = 0;
+        for (double v : sorted) {
+            sum += v;
+        }
+        return sum;
     }
 
     /**
@@ -110,7 +267,7 @@ final class SummaryLayout {
      * should have read under another name ({@code revenue_sum} for {@code log_spend_sum}): refused with the
      * nearest expected name rather than fitted without it.
      */
-    private static void refuseOtherColumns(Source source, DataSpec data, String segment) {
+    static void refuseOtherColumns(Source source, DataSpec data, String segment) {
         List<String> expected = new ArrayList<>(List.of(data.column(ARM, ARM), data.column(USERS, USERS),
                 data.column(PAYERS, PAYERS), data.column("logSpendSum", LOG_SUM), data.column("logSpendSqSum", LOG_SQ_SUM)));
         if (segment != null) {
