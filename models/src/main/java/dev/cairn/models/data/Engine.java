@@ -41,6 +41,13 @@ public final class Engine {
     public static Connection open(boolean ordered, DataFile... files) throws SQLException {
         Connection db;
         try {
+            Class.forName("org.duckdb.DuckDBDriver");
+        } catch (ClassNotFoundException e) {
+            throw new dev.cairn.models.InputException("cannot start the embedded SQL engine: its driver "
+                    + "(org.duckdb:duckdb_jdbc) is not on the class path; run cairn-all.jar or ./cairn, or add the "
+                    + "driver to the program's dependencies");
+        }
+        try {
             db = connect();
         } catch (UnsatisfiedLinkError | ExceptionInInitializerError | NoClassDefFoundError e) {
             throw new dev.cairn.models.InputException(missingLibrary());
