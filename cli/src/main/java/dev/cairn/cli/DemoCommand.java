@@ -37,7 +37,7 @@ final class DemoCommand implements Callable<Integer> {
         PrintWriter stdout = command.commandLine().getOut();
         stdout.println("Demo data: " + out.resolve(DemoScenario.USERS_FILE) + " (true parameters in the README).");
         stdout.flush();
-        List<Demo.Fitted> fitted;
+        List<Demo.Example> fitted;
         try {
             dev.cairn.samplers.Progress progress = ProgressBar.forTerminal(quiet, "demo");
             fitted = Demo.run(out, FitOptions.DEFAULT.withProgress(progress), f -> {

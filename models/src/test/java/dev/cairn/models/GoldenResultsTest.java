@@ -44,9 +44,9 @@ class GoldenResultsTest {
     void everyExampleResultIsTheKeptOne() throws IOException {
         boolean update = Boolean.getBoolean("cairn.golden.update");
         List<String> differ = new ArrayList<>();
-        List<Demo.Fitted> fitted = Demo.run(dir, FitOptions.DEFAULT, f -> { });
+        List<Demo.Example> fitted = Demo.run(dir, FitOptions.DEFAULT, f -> { });
         assertEquals(Demo.examples().size(), fitted.size());
-        for (Demo.Fitted f : fitted) {
+        for (Demo.Example f : fitted) {
             String name = f.spec().replace(".json", ".result.json");
             Path golden = GOLDEN.resolve(name);
             String now = kept(f.outcome());

@@ -24,7 +24,7 @@ public final class Demo {
     }
 
     /** One fitted example: its spec name, the folder its outputs went to, and the outcome. */
-    public record Fitted(String spec, Path folder, FitOutcome outcome) {
+    public record Example(String spec, Path folder, FitOutcome outcome) {
     }
 
     /** {@return the example spec names, in the order the demo fits them} */
@@ -50,10 +50,10 @@ public final class Demo {
      * @param each    called with each fit as it ends
      * @return every fit, in the order the demo fits them
      */
-    public static List<Fitted> run(Path dir, FitOptions options, java.util.function.Consumer<Fitted> each) {
+    public static List<Example> run(Path dir, FitOptions options, java.util.function.Consumer<Example> each) {
         DemoScenario.writeUsers(dir);
         RetentionScenario.write(dir);
-        List<Fitted> out = new ArrayList<>();
+        List<Example> out = new ArrayList<>();
         for (String name : examples()) {
             try {
                 Path spec = dir.resolve(name);
@@ -61,7 +61,7 @@ public final class Demo {
                 FitOutcome outcome = Cairn.fit(spec, options);
                 Path folder = dir.resolve(name.replaceFirst("\\.json$", ""));
                 ResultWriter.write(outcome, folder);
-                Fitted f = new Fitted(name, folder, outcome);
+                Example f = new Example(name, folder, outcome);
                 out.add(f);
                 each.accept(f);
             } catch (IOException e) {
