@@ -162,24 +162,23 @@ final class Source {
         }
     }
 
+    /** Every column of the inline rows, in order of first appearance, with the engine type it is read as. */
+    private static Map<String, String> columnTypes(List<JsonNode> rows, Function<String, String> typeOf) {
+        Map<String, String> types = new LinkedHashMap<>();
+        for (JsonNode row : rows) {
+            row.fieldNames().forEachRemaining(f -> types.computeIfAbsent(f, typeOf));
+        }
+        return types;
+    }
+
     /**
      * Inline rows read without the engine: their columns in order of first appearance and every value checked
      * against its column's type, as {@link #inline} checks them; there is no relation to query.
      */
     static Source inlineColumns(DataSpec data, Function<String, String> typeOf) {
         List<JsonNode> rows = data.rows();
-        List<String> columns = new ArrayList<>();
-        for (JsonNode row : rows) {
-            row.fieldNames().forEachRemaining(f -> {
-                if (!columns.contains(f)) {
-                    columns.add(f);
-                }
-            });
-        }
-        Map<String, String> types = new LinkedHashMap<>();
-        for (String c : columns) {
-            types.put(c, typeOf.apply(c));
-        }
+        Map<String, String> types = columnTypes(rows, typeOf);
+        List<String> columns = new ArrayList<>(types.keySet());
         for (int i = 0; i < rows.size(); i++) {
             for (Map.Entry<String, String> e : types.entrySet()) {
                 checkValue(rows.get(i).get(e.getKey()), e.getValue(), "/data/rows/" + i + "/" + e.getKey());
@@ -191,18 +190,8 @@ final class Source {
     /** Inline rows become a temporary table; each JSON value must have the type its column needs. */
     static Source inline(Connection db, DataSpec data, Function<String, String> typeOf) throws SQLException {
         List<JsonNode> rows = data.rows();
-        List<String> columns = new ArrayList<>();
-        for (JsonNode row : rows) {
-            row.fieldNames().forEachRemaining(f -> {
-                if (!columns.contains(f)) {
-                    columns.add(f);
-                }
-            });
-        }
-        Map<String, String> types = new LinkedHashMap<>();
-        for (String c : columns) {
-            types.put(c, typeOf.apply(c));
-        }
+        Map<String, String> types = columnTypes(rows, typeOf);
+        List<String> columns = new ArrayList<>(types.keySet());
         // A table of this engine's own in-memory database, filled through the engine's appender (a batch
         // of prepared inserts runs row by row: seconds for the largest inline table).
         StringBuilder ddl = new StringBuilder("CREATE TABLE inline_rows (");
