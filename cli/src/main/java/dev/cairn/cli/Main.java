@@ -15,7 +15,7 @@ import picocli.CommandLine.Command;
                 + "consumer-protection law, rules for minors and paid random items, and app-store policies. "
                 + "The output is not financial or legal advice."
         },
-        subcommands = {FitCommand.class, DiagnoseCommand.class, DemoCommand.class, SchemaCommand.class,
+        subcommands = {FitCommand.class, DiagnoseCommand.class, DemoCommand.class, SchemaCommand.class, ServeCommand.class,
             CommandLine.HelpCommand.class})
 public final class Main implements Runnable {
 

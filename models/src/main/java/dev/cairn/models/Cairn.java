@@ -84,7 +84,8 @@ public final class Cairn {
      * @param baseDir the folder relative data paths resolve against
      * @param options threads, progress, cancellation
      * @return the result, draws and figures
-     * @throws InputException for bad data, or data the model gives zero probability everywhere
+     * @throws InputException for bad data, data the model gives zero probability everywhere, or a run that
+     *                        would keep more values than {@code options}' cancellation allows
      */
     public static FitOutcome fit(Spec spec, Path baseDir, FitOptions options) {
         Model model = model(spec.model());
@@ -94,6 +95,10 @@ public final class Cairn {
             // the posterior is zero wherever the sampler looked: data the model cannot produce, not a cairn bug
             throw new InputException("/data: the model gives these data zero probability at every starting point ("
                     + e.getMessage() + "); look for counts or sums it cannot produce");
+        } catch (dev.cairn.samplers.RunTooLargeException e) {
+            // a limit the caller set (a service's memory bound), not the spec's own error
+            throw new InputException("/sampler: the fit would keep " + e.getMessage()
+                    + " here; ask for fewer chains or draws, or fit fewer cells");
         }
     }
 }

@@ -83,9 +83,11 @@ public final class ChainRunner {
      * @param recording what is kept of each draw
      * @return the kept draws, one column per recorded name
      * @throws NoStartException when a chain finds no starting point of positive density
+     * @throws RunTooLargeException when the draws would hold more values than the cancellation allows
      */
     public Draws run(Target target, Sweep sweep, Initializer init, Recording recording) {
         int d = recording.names().size();
+        cancellation.admit(settings.chains(), settings.draws(), d);
         double[][][] out = new double[settings.chains()][d][settings.draws()];
         progress.start(settings.chains(), settings.iterationsPerChain());
         parallel((chain, stop) -> {
@@ -130,6 +132,7 @@ public final class ChainRunner {
      */
     public Draws runExact(Parameters parameters, ExactSampler sampler) {
         int d = parameters.size();
+        cancellation.admit(settings.chains(), settings.draws(), d);
         double[][][] out = new double[settings.chains()][d][settings.draws()];
         progress.start(settings.chains(), settings.draws());
         parallel((chain, stop) -> {

@@ -98,6 +98,24 @@ class RunnerTest {
     }
 
     @Test
+    void aRunKeepingMoreValuesThanAllowedIsRefusedBeforeItStarts() {
+        // 2 chains x 100 draws x 2 coordinates = 400 values: 400 allowed runs, 399 does not (and says so)
+        RunSettings s = RunSettings.of(2, 10, 100, 1);
+        ChainRunner.of(s).withCancellation(new Cancellation(400)).run(NORMAL_2D, mixedSweep(), Initializer.uniform(2));
+        java.util.concurrent.atomic.AtomicBoolean started = new java.util.concurrent.atomic.AtomicBoolean();
+        ChainRunner refused = ChainRunner.of(s).withCancellation(new Cancellation(399))
+                .withProgress((chain, done, total, warmup) -> started.set(true));
+        RunTooLargeException e = assertThrows(RunTooLargeException.class,
+                () -> refused.run(NORMAL_2D, mixedSweep(), Initializer.uniform(2)));
+        assertTrue(e.getMessage().contains("2 x 100 x 2 = 400 values"), e.getMessage());
+        assertEquals(399, e.limit());
+        assertTrue(!started.get(), "no chain may start");
+        assertThrows(RunTooLargeException.class, () -> ChainRunner.of(s).withCancellation(new Cancellation(399))
+                .runExact(Parameters.real("a", "b"), rng -> draw -> { }));
+        assertEquals(Long.MAX_VALUE, Cancellation.values(Integer.MAX_VALUE, Integer.MAX_VALUE, Integer.MAX_VALUE));
+    }
+
+    @Test
     void startsOutsideTheSupportAreRedrawn() {
         // Support only for x > 1: most dispersed starts in (-2, 2) miss it and must be redrawn.
         Target t = Target.of(Parameters.real("x"), x -> x[0] > 1 ? -x[0] : Double.NEGATIVE_INFINITY);
