@@ -54,7 +54,7 @@ final class FitService implements AutoCloseable {
     private final Map<String, Runnable> waiting = new ConcurrentHashMap<>();
     private final AtomicInteger runningNow = new AtomicInteger();
     private final SecureRandom ids = new SecureRandom();
-    private volatile double meanSeconds = 1.0; // of recent fits, for Retry-After
+    private volatile double meanSeconds = Double.NaN; // of recent fits (a moving average), for Retry-After
 
     FitService(ServiceSettings settings) {
         this.settings = settings;
@@ -124,6 +124,9 @@ final class FitService implements AutoCloseable {
 
     /** About how long until a queue slot frees: the queue ahead, over the runners, at the recent mean fit time. */
     private long retryAfterSeconds() {
+        if (Double.isNaN(meanSeconds)) {
+            return 1; // no fit has finished yet to tell how long they take; asking again is cheap
+        }
         double ahead = (runners.getQueue().size() + (double) runningNow.get()) / settings.running();
         return Math.max(1, Math.min(3600, (long) Math.ceil(ahead * meanSeconds)));
     }
@@ -167,7 +170,8 @@ final class FitService implements AutoCloseable {
             limit.cancel(false);
             runningNow.decrementAndGet();
         }
-        meanSeconds = 0.8 * meanSeconds + 0.2 * (System.nanoTime() - start) / 1e9;
+        double took = (System.nanoTime() - start) / 1e9;
+        meanSeconds = Double.isNaN(meanSeconds) ? took : 0.8 * meanSeconds + 0.2 * took;
         long now = System.currentTimeMillis();
         if (state != FitJob.State.CANCELLED && store != null && jobs.containsKey(job.id)) {
             try {

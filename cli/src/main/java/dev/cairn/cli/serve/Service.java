@@ -12,6 +12,14 @@ import org.eclipse.jetty.util.thread.QueuedThreadPool;
  * {@link FitService}. Start it, ask its address, close it.
  */
 public final class Service implements AutoCloseable {
+    /** An idle connection is closed after this; a client should drop its idle connections sooner. */
+    public static final long IDLE_TIMEOUT_MILLIS = 30_000;
+    /**
+     * The server's threads: a request's thread reads the body, checks the spec and queues the fit, then lets
+     * go (the answer is written when the fit ends), so a few dozen serve a thousand open requests; each
+     * thread also holds its own parser buffers, which is memory the load test bounds.
+     */
+    private static final int HTTP_THREADS = 48;
     private final Server server;
     private final ServerConnector connector;
     private final FitService fits;
@@ -32,7 +40,7 @@ public final class Service implements AutoCloseable {
      */
     public static Service start(ServiceSettings settings) throws java.io.IOException {
         FitService fits = new FitService(settings);
-        QueuedThreadPool threads = new QueuedThreadPool(200, 8);
+        QueuedThreadPool threads = new QueuedThreadPool(HTTP_THREADS, 4); // requests only parse and queue: few threads do
         threads.setName("cairn-http");
         threads.setDaemon(true);
         Server server = new Server(threads);
@@ -41,6 +49,7 @@ public final class Service implements AutoCloseable {
         ServerConnector connector = new ServerConnector(server, new HttpConnectionFactory(http));
         connector.setHost(settings.host());
         connector.setPort(settings.port());
+        connector.setIdleTimeout(IDLE_TIMEOUT_MILLIS);
         server.addConnector(connector);
         server.setHandler(new HttpApi(fits));
         server.setErrorHandler(new JsonErrors());
