@@ -21,7 +21,8 @@ public record Estimates(List<String> names, double[] estimate, double[] se, Stri
     }
 
     /**
-     * Read with DuckDB from a CSV or Parquet file or inline rows; bad rows are refused with their place.
+     * Read with DuckDB from a CSV or Parquet file, or from inline rows in memory (no engine); bad rows are refused
+     * with their place.
      *
      * @param data    the spec's data part
      * @param baseDir the folder relative paths resolve against

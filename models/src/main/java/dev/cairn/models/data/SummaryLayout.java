@@ -53,15 +53,7 @@ final class SummaryLayout {
     private record Row(String arm, String segment, Double n, Double m, Double a, Double b) {
     }
 
-    /**
-     * A row rule in both forms, the engine's SQL condition and the same test in Java (for inline rows read
-     * without the engine), with the column it names and what is wrong. Kept in one table so the two paths
-     * check the same things, in the same order, with the same words.
-     */
-    private record Rule(String sql, java.util.function.Predicate<Row> test, String column, String what) {
-    }
-
-    private static List<Rule> rules(Columns c, DataSpec data, String segment, String armExpr, String segmentExpr) {
+    private static List<RowRule<Row>> rules(Columns c, DataSpec data, String segment, String armExpr, String segmentExpr) {
         String n = "CAST(" + Sql.identifier(c.users()) + " AS DOUBLE)";
         String m = "CAST(" + Sql.identifier(c.payers()) + " AS DOUBLE)";
         boolean spend = c.hasSpend();
@@ -70,34 +62,34 @@ final class SummaryLayout {
         String sum = data.column("logSpendSum", LOG_SUM), sq = data.column("logSpendSqSum", LOG_SQ_SUM);
         // Java forms follow SQL's rule that a comparison with NULL is not true
         return List.of(
-            new Rule(armExpr + " IS NULL OR " + armExpr + " = ''", r -> r.arm() == null || r.arm().isEmpty(),
+            new RowRule<Row>(armExpr + " IS NULL OR " + armExpr + " = ''", r -> r.arm() == null || r.arm().isEmpty(),
                 c.arm(), "arm is empty"),
-            new Rule(segmentExpr == null ? "false" : segmentExpr + " IS NULL OR " + segmentExpr + " = ''",
+            new RowRule<Row>(segmentExpr == null ? "false" : segmentExpr + " IS NULL OR " + segmentExpr + " = ''",
                 r -> segment != null && (r.segment() == null || r.segment().isEmpty()), segment, "segment is empty"),
-            new Rule(n + " IS NULL OR " + m + " IS NULL", r -> r.n() == null || r.m() == null,
+            new RowRule<Row>(n + " IS NULL OR " + m + " IS NULL", r -> r.n() == null || r.m() == null,
                 c.users() + "/" + c.payers(), "users and payers must be given"),
-            new Rule("isnan(" + n + ") OR isinf(" + n + ") OR " + n + " <> floor(" + n + ")",
+            new RowRule<Row>("isnan(" + n + ") OR isinf(" + n + ") OR " + n + " <> floor(" + n + ")",
                 r -> r.n() != null && !(Double.isFinite(r.n()) && r.n() == Math.floor(r.n())), c.users(),
                 "users must be a whole number"),
-            new Rule("isnan(" + m + ") OR isinf(" + m + ") OR " + m + " <> floor(" + m + ")",
+            new RowRule<Row>("isnan(" + m + ") OR isinf(" + m + ") OR " + m + " <> floor(" + m + ")",
                 r -> r.m() != null && !(Double.isFinite(r.m()) && r.m() == Math.floor(r.m())), c.payers(),
                 "payers must be a whole number"),
-            new Rule(n + " < 0 OR " + m + " < 0", r -> (r.n() != null && r.n() < 0) || (r.m() != null && r.m() < 0),
+            new RowRule<Row>(n + " < 0 OR " + m + " < 0", r -> (r.n() != null && r.n() < 0) || (r.m() != null && r.m() < 0),
                 c.users() + "/" + c.payers(), "users and payers must be >= 0"),
-            new Rule(m + " > " + n, r -> r.n() != null && r.m() != null && r.m() > r.n(), c.payers(),
+            new RowRule<Row>(m + " > " + n, r -> r.n() != null && r.m() != null && r.m() > r.n(), c.payers(),
                 "payers must not exceed users"),
-            new Rule(spend ? "(" + m + " > 0 AND (" + a + " IS NULL OR " + b + " IS NULL))" : "false",
+            new RowRule<Row>(spend ? "(" + m + " > 0 AND (" + a + " IS NULL OR " + b + " IS NULL))" : "false",
                 r -> spend && r.m() != null && r.m() > 0 && (r.a() == null || r.b() == null), sum,
                 "log-spend sums are needed where payers > 0"),
-            new Rule(spend ? "isnan(" + a + ") OR isinf(" + a + ") OR isnan(" + b + ") OR isinf(" + b + ")" : "false",
+            new RowRule<Row>(spend ? "isnan(" + a + ") OR isinf(" + a + ") OR isnan(" + b + ") OR isinf(" + b + ")" : "false",
                 r -> spend && ((r.a() != null && !Double.isFinite(r.a())) || (r.b() != null && !Double.isFinite(r.b()))),
                 sum, "log-spend sums must be finite numbers"),
-            new Rule(spend ? "(" + m + " > 0 AND " + b + " < " + a + " * " + a + " / " + m + " - 1e-9 * abs(" + b + "))"
+            new RowRule<Row>(spend ? "(" + m + " > 0 AND " + b + " < " + a + " * " + a + " / " + m + " - 1e-9 * abs(" + b + "))"
                     : "false",
                 r -> spend && r.m() != null && r.m() > 0 && r.a() != null && r.b() != null
                         && r.b() < r.a() * r.a() / r.m() - 1e-9 * Math.abs(r.b()), sq,
                 "log_spend_sq_sum is smaller than log_spend_sum^2 / payers, which no data can give"),
-            new Rule(spend ? "(" + m + " = 0 AND (coalesce(" + a + ", 0) <> 0 OR coalesce(" + b + ", 0) <> 0))" : "false",
+            new RowRule<Row>(spend ? "(" + m + " = 0 AND (coalesce(" + a + ", 0) <> 0 OR coalesce(" + b + ", 0) <> 0))" : "false",
                 r -> spend && r.m() != null && r.m() == 0 && ((r.a() != null && r.a() != 0) || (r.b() != null && r.b() != 0)),
                 sum, "log-spend sums must be 0 where payers = 0"));
     }
@@ -114,12 +106,7 @@ final class SummaryLayout {
         String a = hasSpend ? "CAST(" + Sql.identifier(c.s1()) + " AS DOUBLE)" : "0.0";
         String b = hasSpend ? "CAST(" + Sql.identifier(c.s2()) + " AS DOUBLE)" : "0.0";
         // Row checks first: summary tables are small, and a bad row must be named, not summed away.
-        List<Rule> rules = rules(c, data, segment, armExpr, segmentExpr);
-        String[][] sqlRules = new String[rules.size()][];
-        for (int i = 0; i < rules.size(); i++) {
-            sqlRules[i] = new String[] {rules.get(i).sql(), rules.get(i).column(), rules.get(i).what()};
-        }
-        source.check(db, sqlRules);
+        source.check(db, RowRule.sqlForms(rules(c, data, segment, armExpr, segmentExpr)));
         // Several rows of one arm are added in increasing order of value, so sums do not depend on threads.
         String query = """
                 SELECT %1$s,
@@ -177,27 +164,12 @@ final class SummaryLayout {
         List<com.fasterxml.jackson.databind.JsonNode> rows = data.rows();
         List<Row> values = new ArrayList<>(rows.size());
         for (com.fasterxml.jackson.databind.JsonNode r : rows) {
-            values.add(new Row(text(r.get(c.arm())), segment == null ? null : text(r.get(segment)), number(r.get(c.users())),
-                    number(r.get(c.payers())), c.hasSpend() ? number(r.get(c.s1())) : Double.valueOf(0),
-                    c.hasSpend() ? number(r.get(c.s2())) : Double.valueOf(0)));
+            values.add(new Row(RowRule.text(r.get(c.arm())), segment == null ? null : RowRule.text(r.get(segment)),
+                    RowRule.number(r.get(c.users())), RowRule.number(r.get(c.payers())),
+                    c.hasSpend() ? RowRule.number(r.get(c.s1())) : Double.valueOf(0),
+                    c.hasSpend() ? RowRule.number(r.get(c.s2())) : Double.valueOf(0)));
         }
-        for (Rule rule : rules(c, data, segment, null, null)) {
-            List<String> where = new ArrayList<>();
-            long count = 0;
-            for (int i = 0; i < values.size(); i++) {
-                if (rule.test().test(values.get(i))) {
-                    count++;
-                    if (where.size() < 3) {
-                        where.add("/data/rows/" + i);
-                    }
-                }
-            }
-            if (count > 0) {
-                throw new InputException("spec: " + String.join(", ", where)
-                        + (count > where.size() ? " and " + (count - where.size()) + " more" : "") + ", '" + rule.column()
-                        + "': " + rule.what());
-            }
-        }
+        RowRule.checkInline(values, rules(c, data, segment, null, null));
         // cells in key order (segment, then arm), sums over a cell's rows in increasing order of value
         java.util.TreeMap<List<String>, List<Row>> cells = new java.util.TreeMap<>((x, y) -> {
             int k = x.get(0).compareTo(y.get(0));
@@ -229,26 +201,6 @@ final class SummaryLayout {
         // rows as the engine's path counts them: the cells its grouped query returns
         return new SpendDataReader.Cells(segments, arms, c.hasSpend(), source.name, arms.size(),
                 warnings(source, data, c.hasSpend()), null);
-    }
-
-    /** A text value as the engine casts and trims it (spaces only); null when absent. */
-    private static String text(com.fasterxml.jackson.databind.JsonNode v) {
-        if (v == null || v.isNull()) {
-            return null;
-        }
-        String t = v.asText();
-        int from = 0, to = t.length();
-        while (from < to && t.charAt(from) == ' ') {
-            from++;
-        }
-        while (to > from && t.charAt(to - 1) == ' ') {
-            to--;
-        }
-        return t.substring(from, to);
-    }
-
-    private static Double number(com.fasterxml.jackson.databind.JsonNode v) {
-        return v == null || v.isNull() ? null : v.doubleValue();
     }
 
     /** The sum of the values in increasing order. */
