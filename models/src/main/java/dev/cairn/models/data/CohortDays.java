@@ -62,7 +62,8 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
     }
 
     /**
-     * Reads a cohort-days table (a file or inline rows); bad rows are refused with their place.
+     * Reads a cohort-days table (a file through the SQL engine, or inline rows in memory); bad rows are refused
+     * with their place.
      *
      * @param data     the spec's data part
      * @param baseDir  the folder relative paths resolve against
@@ -71,18 +72,51 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
      * @throws InputException one line naming the file, row or column
      */
     public static CohortDays read(DataSpec data, Path baseDir, boolean survival) {
-        DataFile file = data.rows() != null ? null : DataFile.of(data.path(), baseDir, "data.path");
+        if (data.rows() != null) {
+            return readInline(data, survival);
+        }
+        DataFile file = DataFile.of(data.path(), baseDir, "data.path");
         return DataFile.whole(() -> read(data, file, survival), file);
+    }
+
+    /** Inline rows through the SQL engine, as files are read (the parity test's other side). */
+    static CohortDays throughEngine(DataSpec data, boolean survival) {
+        return read(data, (DataFile) null, survival);
+    }
+
+    private static java.util.function.Function<String, String> types(DataSpec data) {
+        String dayCol = data.column("day", "day");
+        String installsCol = data.column("installs", "installs");
+        String activeCol = data.column("active", "active");
+        return c -> c.equals(dayCol) || c.equals(installsCol) || c.equals(activeCol) ? "DOUBLE" : "VARCHAR";
+    }
+
+    /**
+     * The same table from inline rows without the SQL engine: the same column checks, then the same row checks
+     * (they are made in Java on either path), in the spec's row order.
+     */
+    static CohortDays readInline(DataSpec data, boolean survival) {
+        Source source = Source.inlineColumns(data, types(data));
+        String cohort = source.require(data, "cohort", "cohort");
+        String day = source.require(data, "day", "day");
+        String inst = source.require(data, "installs", "installs");
+        String act = source.require(data, "active", "active");
+        String arm = source.optional(data, "arm", "arm");
+        List<Object[]> rows = new ArrayList<>(data.rows().size());
+        long position = 0;
+        for (com.fasterxml.jackson.databind.JsonNode r : data.rows()) {
+            rows.add(new Object[] {position++, RowRule.text(r.get(cohort)), arm == null ? null : RowRule.text(r.get(arm)),
+                RowRule.number(r.get(day)), RowRule.number(r.get(inst)), RowRule.number(r.get(act))});
+        }
+        if (rows.isEmpty()) {
+            throw new InputException(source.name + ": no data rows");
+        }
+        return build(rows, source, cohort, arm, day, inst, act, survival);
     }
 
     private static CohortDays read(DataSpec data, DataFile file, boolean survival) {
         try (Connection db = Engine.open(true, file)) { // one thread: rows numbered in file order; tables are small
-            String cohortCol = data.column("cohort", "cohort");
-            String dayCol = data.column("day", "day");
-            String installsCol = data.column("installs", "installs");
-            String activeCol = data.column("active", "active");
-            java.util.function.Function<String, String> types = c -> c.equals(dayCol) || c.equals(installsCol)
-                    || c.equals(activeCol) ? "DOUBLE" : "VARCHAR";
+            java.util.function.Function<String, String> types = types(data);
             Source source = file == null ? Source.inline(db, data, types) : Source.file(db, file, types);
             String cohort = source.require(data, "cohort", "cohort");
             String day = source.require(data, "day", "day");
