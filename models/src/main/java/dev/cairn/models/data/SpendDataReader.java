@@ -79,14 +79,15 @@ public final class SpendDataReader {
     }
 
     private static Cells cells(DataSpec data, Path baseDir, boolean strict, boolean segmented) {
-        if (data.rows() != null && "summary".equals(data.layout())) {
-            // statistics given in memory need no query engine (and fit where its native library is missing)
-            return SummaryLayout.readInline(data, segmented);
+        if (data.rows() != null) {
+            // data given in memory need no query engine (and fit where its native library is missing)
+            return "summary".equals(data.layout()) ? SummaryLayout.readInline(data, segmented)
+                    : UsersInline.read(data, strict, segmented);
         }
         return throughEngine(data, baseDir, strict, segmented);
     }
 
-    /** The cells as the engine reads them (every file; inline rows of the users layout; the parity test). */
+    /** The cells as the engine reads them (every file; inline rows only in the parity tests). */
     static Cells throughEngine(DataSpec data, Path baseDir, boolean strict, boolean segmented) {
         DataFile file = data.rows() != null ? null : DataFile.of(data.path(), baseDir, "data.path");
         return DataFile.whole(() -> cells(data, file, strict, segmented), file);

@@ -169,6 +169,48 @@ public final class SpecBuilder {
     }
 
     /**
+     * Users of one arm for the spend models' users layout, one row per user with what each spent (0 for a
+     * user who did not pay); sets the layout. Read in memory, without the SQL engine.
+     *
+     * @param arm    the arm
+     * @param spends each user's spend
+     * @return this builder
+     */
+    public SpecBuilder users(String arm, double... spends) {
+        layout("users");
+        for (double spend : spends) {
+            Map<String, Object> row = new LinkedHashMap<>();
+            row.put("arm", arm);
+            row.put("spend", spend);
+            row(row);
+        }
+        return this;
+    }
+
+    /**
+     * One row of the retention model's cohort-days layout (sets the layout).
+     *
+     * @param cohort   the install cohort, e.g. an ISO date
+     * @param arm      the arm, or null for a table without arms
+     * @param day      days since install (0 is the install day)
+     * @param installs the cohort's installs in the arm
+     * @param active   how many were active (or, for survival curves, still retained) on that day
+     * @return this builder
+     */
+    public SpecBuilder cohortRow(String cohort, String arm, int day, long installs, long active) {
+        layout("cohort-days");
+        Map<String, Object> row = new LinkedHashMap<>();
+        row.put("cohort", cohort);
+        if (arm != null) {
+            row.put("arm", arm);
+        }
+        row.put("day", day);
+        row.put("installs", installs);
+        row.put("active", active);
+        return row(row);
+    }
+
+    /**
      * @param method "auto", "exact", "nuts", ... (see {@code cairn schema})
      * @return this builder
      */

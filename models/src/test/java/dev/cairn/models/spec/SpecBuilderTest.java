@@ -48,6 +48,25 @@ class SpecBuilderTest {
         assertEquals(1, noModel.lines().count());
     }
 
+    @Test
+    void perUserAndCohortRowsAreTheJsonRows() {
+        Spec users = Spec.builder("spend").users("A", 0, 4.99, 0).users("B", 0, 0, 9.99).build();
+        Spec usersJson = SpecReader.parse("""
+                {"model": "spend", "data": {"layout": "users", "rows": [
+                  {"arm": "A", "spend": 0.0}, {"arm": "A", "spend": 4.99}, {"arm": "A", "spend": 0.0},
+                  {"arm": "B", "spend": 0.0}, {"arm": "B", "spend": 0.0}, {"arm": "B", "spend": 9.99}]}}
+                """, "file");
+        assertEquals(usersJson, users);
+        Spec cohorts = Spec.builder("retention").set("/curve", "activity").cohortRow("2026-03-02", "A", 1, 500, 210)
+                .cohortRow("2026-03-02", null, 7, 500, 120).build();
+        Spec cohortsJson = SpecReader.parse("""
+                {"model": "retention", "curve": "activity", "data": {"layout": "cohort-days", "rows": [
+                  {"cohort": "2026-03-02", "arm": "A", "day": 1, "installs": 500, "active": 210},
+                  {"cohort": "2026-03-02", "day": 7, "installs": 500, "active": 120}]}}
+                """, "file");
+        assertEquals(cohortsJson, cohorts);
+    }
+
     private static String message(Runnable r) {
         return assertThrows(InputException.class, r::run).getMessage();
     }
