@@ -220,13 +220,7 @@ public final class SpendDataReader {
                 break;
             }
         }
-        List<String> warnings = new ArrayList<>();
-        if (spend == null) {
-            warnings.add(conversionOnly(source.name + " has no spend column ('" + data.column(SPEND, SPEND) + "')"));
-        } else if (blanks > 0) {
-            warnings.add(source.name + ", column '" + spend + "': " + blanks + " blank spend cell"
-                    + (blanks == 1 ? "" : "s") + " read as 0 (data.missingSpend is \"zero\")");
-        }
+        List<String> warnings = usersWarnings(source, data, spend, blanks);
         String user = source.optionalMapped(data, "user");
         if (user != null) {
             long duplicates;
@@ -235,14 +229,7 @@ public final class SpendDataReader {
                 r.next();
                 duplicates = r.getLong(1);
             }
-            if (duplicates > 0) {
-                String message = source.name + ", column '" + user + "': " + duplicates + " duplicate user id"
-                        + (duplicates == 1 ? "" : "s") + " (each row is counted as one user)";
-                if (strict) {
-                    throw new InputException(message + "; refused because the spec is strict");
-                }
-                warnings.add(message);
-            }
+            duplicateUsers(source, user, duplicates, strict, warnings);
         }
         return new Cells(segments, arms, spend != null, source.name, rows, warnings, source.shown(query));
     }
@@ -330,6 +317,30 @@ public final class SpendDataReader {
     private static double orNaN(ResultSet r, String column) throws SQLException {
         double v = r.getDouble(column);
         return r.wasNull() ? Double.NaN : v;
+    }
+
+    /** The users layout's warnings: a fit without spend, or blank spend cells read as 0. */
+    static List<String> usersWarnings(Source source, DataSpec data, String spend, long blanks) {
+        List<String> warnings = new ArrayList<>();
+        if (spend == null) {
+            warnings.add(conversionOnly(source.name + " has no spend column ('" + data.column(SPEND, SPEND) + "')"));
+        } else if (blanks > 0) {
+            warnings.add(source.name + ", column '" + spend + "': " + blanks + " blank spend cell"
+                    + (blanks == 1 ? "" : "s") + " read as 0 (data.missingSpend is \"zero\")");
+        }
+        return warnings;
+    }
+
+    /** Duplicate user ids: a warning, or refused when the spec is strict. */
+    static void duplicateUsers(Source source, String user, long duplicates, boolean strict, List<String> warnings) {
+        if (duplicates > 0) {
+            String message = source.name + ", column '" + user + "': " + duplicates + " duplicate user id"
+                    + (duplicates == 1 ? "" : "s") + " (each row is counted as one user)";
+            if (strict) {
+                throw new InputException(message + "; refused because the spec is strict");
+            }
+            warnings.add(message);
+        }
     }
 
     /** The warning of a fit without spend: what it estimates and what it leaves out. */

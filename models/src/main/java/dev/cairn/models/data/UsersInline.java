@@ -69,14 +69,7 @@ final class UsersInline {
                     : ArmStats.conversions(e.getKey().get(1), e.getValue().size(),
                             e.getValue().stream().filter(r -> Boolean.TRUE.equals(r.converted())).count()));
         }
-        List<String> warnings = new ArrayList<>();
-        if (spend == null) {
-            warnings.add(SpendDataReader.conversionOnly(source.name + " has no spend column ('"
-                    + data.column(SpendDataReader.SPEND, SpendDataReader.SPEND) + "')"));
-        } else if (blanks > 0) {
-            warnings.add(source.name + ", column '" + spend + "': " + blanks + " blank spend cell"
-                    + (blanks == 1 ? "" : "s") + " read as 0 (data.missingSpend is \"zero\")");
-        }
+        List<String> warnings = SpendDataReader.usersWarnings(source, data, spend, blanks);
         if (user != null) {
             Set<String> distinct = new HashSet<>();
             for (Row r : rows) {
@@ -84,15 +77,7 @@ final class UsersInline {
                     distinct.add(r.user());
                 }
             }
-            long duplicates = rows.size() - distinct.size();
-            if (duplicates > 0) {
-                String message = source.name + ", column '" + user + "': " + duplicates + " duplicate user id"
-                        + (duplicates == 1 ? "" : "s") + " (each row is counted as one user)";
-                if (strict) {
-                    throw new InputException(message + "; refused because the spec is strict");
-                }
-                warnings.add(message);
-            }
+            SpendDataReader.duplicateUsers(source, user, rows.size() - distinct.size(), strict, warnings);
         }
         return new SpendDataReader.Cells(segments, arms, spend != null, source.name, rows.size(), warnings, null);
     }
