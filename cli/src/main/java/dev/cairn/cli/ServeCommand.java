@@ -96,7 +96,8 @@ final class ServeCommand implements Callable<Integer> {
         try {
             service = Service.start(settings);
         } catch (java.io.IOException e) {
-            err.println("cairn serve: cannot listen on " + host + ":" + port + " (" + Messages.ioReason(e) + ")");
+            err.println("cairn serve: cannot listen on " + host + ":" + port + " (" + Messages.ioReason(e)
+                    + "); is another service on that port? --port 0 picks a free one");
             return ExitCodes.BAD_INPUT;
         } catch (IllegalArgumentException | java.io.UncheckedIOException e) {
             err.println("cairn serve: " + e.getMessage());
