@@ -1,26 +1,21 @@
 package dev.cairn.cli;
 
 import dev.cairn.samplers.Progress;
+import dev.cairn.samplers.ProgressTally;
 import java.io.PrintStream;
 import java.util.Locale;
-import java.util.concurrent.atomic.AtomicLongArray;
 
 /**
  * A one-line progress bar on stderr for fits that take more than about a second: share of all chains'
  * iterations done, whether chains are still warming up, and the time left. Drawn only when the process
  * has a terminal, at most ten times a second, and erased when the fit ends.
  */
-final class ProgressBar implements Progress {
+final class ProgressBar extends ProgressTally {
     private static final long DELAY_NANOS = 1_000_000_000L;
     private static final long INTERVAL_NANOS = 100_000_000L;
     private final PrintStream err;
     private final String label;
     private final long start = System.nanoTime();
-    private final AtomicLongArray done = new AtomicLongArray(256);
-    private final AtomicLongArray totals = new AtomicLongArray(256);
-    private final java.util.concurrent.atomic.AtomicIntegerArray inWarmup = new java.util.concurrent.atomic.AtomicIntegerArray(256);
-    /** The whole run's iterations, known from {@link #start}; 0 until then. */
-    private volatile long runTotal;
     private long lastDrawn;
     private boolean drawn;
 
@@ -46,22 +41,8 @@ final class ProgressBar implements Progress {
     }
 
     @Override
-    public synchronized void start(int chains, long totalPerChain) {
-        runTotal = (long) chains * totalPerChain;
-        for (int i = 0; i < done.length(); i++) {
-            done.set(i, 0);
-            totals.set(i, 0);
-        }
-    }
-
-    @Override
     public void report(int chain, long iterations, long total, boolean warming) {
-        if (chain >= done.length()) {
-            return;
-        }
-        done.set(chain, iterations);
-        totals.set(chain, total);
-        inWarmup.set(chain, warming ? 1 : 0);
+        super.report(chain, iterations, total, warming);
         long now = System.nanoTime();
         if (now - start < delayNanos) {
             return;
@@ -71,19 +52,12 @@ final class ProgressBar implements Progress {
                 return;
             }
             lastDrawn = now;
-            long sumDone = 0, sumTotal = 0;
-            boolean warmup = false;
-            for (int i = 0; i < done.length(); i++) {
-                sumDone += done.get(i);
-                sumTotal += totals.get(i);
-                warmup |= inWarmup.get(i) == 1 && done.get(i) < totals.get(i);
-            }
-            // one fraction of the whole run: chains not started yet count as not done, so it only grows
-            sumTotal = Math.max(sumTotal, runTotal);
+            long sumDone = done(), sumTotal = total();
             if (sumTotal == 0) {
                 return;
             }
-            double share = (double) sumDone / sumTotal;
+            double share = share();
+            boolean warmup = warmup();
             double elapsed = (now - start) / 1e9;
             double left = share > 0 ? elapsed * (1 - share) / share : Double.NaN;
             int width = 30;

@@ -133,13 +133,34 @@ public final class ResultWriter {
 
     /** The same as {@link #atomically} for bytes (through a 1 MiB buffer). */
     private static void atomicallyBytes(Path target, ByteAction action) throws IOException {
+        atomicallyBytes(target, action, false);
+    }
+
+    /**
+     * Writes bytes through the given action into a temporary sibling, then renames it onto {@code target}, so
+     * a reader sees the whole file or none.
+     *
+     * @param target  the file written
+     * @param action  writes the bytes
+     * @param durable whether the bytes are forced to the disk before the rename (a result kept across a
+     *                machine's restart, not only the process's)
+     * @throws IOException when writing or renaming fails (the temporary file is removed)
+     */
+    public static void atomicallyBytes(Path target, ByteAction action, boolean durable) throws IOException {
         // A sibling with a random suffix, created with the default permissions (not the owner-only ones of a
         // temporary file), so the renamed file reads like any other the user writes.
         Path tmp = target.resolveSibling("." + target.getFileName() + "." + Long.toHexString(System.nanoTime())
                 + Long.toHexString(Double.doubleToLongBits(Math.random())) + ".tmp");
         try {
-            try (java.io.OutputStream out = new java.io.BufferedOutputStream(Files.newOutputStream(tmp), 1 << 20)) {
+            try (java.nio.channels.FileChannel ch = java.nio.channels.FileChannel.open(tmp,
+                    java.nio.file.StandardOpenOption.CREATE_NEW, java.nio.file.StandardOpenOption.WRITE)) {
+                java.io.OutputStream out = new java.io.BufferedOutputStream(java.nio.channels.Channels.newOutputStream(ch),
+                        1 << 20);
                 action.write(out);
+                out.flush();
+                if (durable) {
+                    ch.force(true);
+                }
             }
             try {
                 Files.move(tmp, target, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
@@ -151,8 +172,9 @@ public final class ResultWriter {
         }
     }
 
+    /** Writes a file's bytes. */
     @FunctionalInterface
-    private interface ByteAction {
+    public interface ByteAction {
         void write(java.io.OutputStream out) throws IOException;
     }
 

@@ -98,6 +98,33 @@ class RunnerTest {
     }
 
     @Test
+    void theTallyOfARunOnlyGrowsAndEndsWhole() {
+        ProgressTally tally = new ProgressTally();
+        java.util.List<Double> shares = java.util.Collections.synchronizedList(new java.util.ArrayList<>());
+        ProgressTally watched = new ProgressTally() {
+            @Override
+            public void report(int chain, long iterations, long total, boolean warmup) {
+                tally.report(chain, iterations, total, warmup);
+                shares.add(tally.share());
+            }
+
+            @Override
+            public void start(int chains, long totalPerChain) {
+                tally.start(chains, totalPerChain);
+            }
+        };
+        ChainRunner.of(RunSettings.of(3, 400, 600, 5).withThreads(1)).withProgress(watched)
+                .run(NORMAL_2D, mixedSweep(), Initializer.uniform(2));
+        assertEquals(3 * 1000, tally.total());
+        assertEquals(tally.total(), tally.done());
+        assertEquals(1.0, tally.share());
+        assertTrue(!tally.warmup());
+        for (int i = 1; i < shares.size(); i++) {
+            assertTrue(shares.get(i) >= shares.get(i - 1), "one thread: the share never falls");
+        }
+    }
+
+    @Test
     void aRunKeepingMoreValuesThanAllowedIsRefusedBeforeItStarts() {
         // 2 chains x 100 draws x 2 coordinates = 400 values: 400 allowed runs, 399 does not (and says so)
         RunSettings s = RunSettings.of(2, 10, 100, 1);

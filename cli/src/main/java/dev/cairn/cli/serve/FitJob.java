@@ -2,8 +2,8 @@ package dev.cairn.cli.serve;
 
 import dev.cairn.samplers.Cancellation;
 import dev.cairn.samplers.Progress;
+import dev.cairn.samplers.ProgressTally;
 import java.util.concurrent.CompletableFuture;
-import java.util.concurrent.atomic.AtomicLongArray;
 
 /**
  * One fit the service was asked for: its state, progress and, once finished, the answer it gives (status and
@@ -37,7 +37,7 @@ final class FitJob {
     private volatile State state;
     private volatile long finishedMillis;
     private volatile boolean timedOut;
-    private final Tracker tracker = new Tracker();
+    private final ProgressTally tracker = new ProgressTally();
 
     FitJob(String id, long submittedMillis, long maxKeptValues) {
         this.id = id;
@@ -98,39 +98,6 @@ final class FitJob {
 
     /** {@return the fraction of the fit's iterations done, 0 to 1} */
     double fractionDone() {
-        return state.finished() ? 1.0 : tracker.fraction();
-    }
-
-    /** Sums the chains' iterations done; the total comes from {@link Progress#start}. */
-    private static final class Tracker implements Progress {
-        private volatile AtomicLongArray done = new AtomicLongArray(0);
-        private volatile long total;
-
-        @Override
-        public void start(int chains, long totalPerChain) {
-            done = new AtomicLongArray(chains);
-            total = chains * totalPerChain;
-        }
-
-        @Override
-        public void report(int chain, long iterations, long totalOfChain, boolean warmup) {
-            AtomicLongArray d = done;
-            if (chain < d.length()) {
-                d.set(chain, iterations);
-            }
-        }
-
-        double fraction() {
-            AtomicLongArray d = done;
-            long t = total;
-            if (t <= 0) {
-                return 0;
-            }
-            long sum = 0;
-            for (int i = 0; i < d.length(); i++) {
-                sum += d.get(i);
-            }
-            return Math.min(1.0, (double) sum / t);
-        }
+        return state.finished() ? 1.0 : tracker.share();
     }
 }

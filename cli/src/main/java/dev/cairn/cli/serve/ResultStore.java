@@ -2,14 +2,9 @@ package dev.cairn.cli.serve;
 
 import java.io.IOException;
 import java.io.UncheckedIOException;
-import java.nio.ByteBuffer;
-import java.nio.channels.FileChannel;
-import java.nio.file.AtomicMoveNotSupportedException;
 import java.nio.file.DirectoryStream;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardCopyOption;
-import java.nio.file.StandardOpenOption;
 import java.nio.file.attribute.FileTime;
 import java.util.ArrayList;
 import java.util.List;
@@ -84,30 +79,12 @@ final class ResultStore {
      */
     void write(String id, FitJob.Answer answer, long finishedMillis) {
         Path target = folder.resolve(id + "." + answer.status() + ".json");
-        Path tmp = folder.resolve("." + target.getFileName() + "." + Long.toHexString(System.nanoTime()) + ".tmp");
         try {
-            try (FileChannel ch = FileChannel.open(tmp, StandardOpenOption.CREATE_NEW, StandardOpenOption.WRITE)) {
-                ByteBuffer b = ByteBuffer.wrap(answer.body());
-                while (b.hasRemaining()) {
-                    ch.write(b);
-                }
-                ch.force(true);
-            }
-            Files.setLastModifiedTime(tmp, FileTime.fromMillis(finishedMillis));
-            try {
-                Files.move(tmp, target, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
-            } catch (AtomicMoveNotSupportedException e) {
-                Files.move(tmp, target, StandardCopyOption.REPLACE_EXISTING);
-            }
+            dev.cairn.models.ResultWriter.atomicallyBytes(target, out -> out.write(answer.body()), true);
+            Files.setLastModifiedTime(target, FileTime.fromMillis(finishedMillis));
         } catch (IOException e) {
             throw new UncheckedIOException("--store " + folder + ": cannot write " + target.getFileName() + ": "
                     + e.getMessage(), e);
-        } finally {
-            try {
-                Files.deleteIfExists(tmp);
-            } catch (IOException ignored) {
-                // the next start removes it
-            }
         }
     }
 
