@@ -31,7 +31,7 @@ import java.util.stream.Stream;
  */
 public final class OutputFolder implements AutoCloseable {
     /** The files a run writes; an existing folder may hold only these. */
-    public static final Set<String> OUTPUTS = Set.of("result.json", "draws.csv", "report.html");
+    public static final Set<String> OUTPUTS = Set.of("result.json", "draws.csv", "report.html", "plan.json", "plan.csv");
     private static final String OWNER = ".cairn-owner";
 
     private final Path target;

@@ -4,6 +4,8 @@ import org.apache.commons.rng.UniformRandomProvider;
 import org.apache.commons.rng.sampling.distribution.AhrensDieterMarsagliaTsangGammaSampler;
 import org.apache.commons.rng.sampling.distribution.DiscreteSampler;
 import org.apache.commons.rng.sampling.distribution.MarsagliaTsangWangDiscreteSampler;
+import org.apache.commons.rng.sampling.distribution.SharedStateDiscreteSampler;
+import org.apache.commons.rng.simple.RandomSource;
 import org.apache.commons.rng.sampling.distribution.ZigguratSampler;
 
 /**
@@ -25,10 +27,17 @@ public final class DailyStats {
     static final double CHUNK_LOG_ZERO = 500;
     private final ArmTruth truth;
     private final int[] chunks;
+    /** The chunks' samplers with their tables built once, bound to a stream per {@link #start}. */
+    private final SharedStateDiscreteSampler[] prototypes;
 
     private DailyStats(ArmTruth truth, int[] chunks) {
         this.truth = truth;
         this.chunks = chunks;
+        this.prototypes = new SharedStateDiscreteSampler[chunks.length];
+        UniformRandomProvider unused = RandomSource.SPLIT_MIX_64.create(0L); // replaced by each source's stream
+        for (int i = 0; i < chunks.length; i++) {
+            prototypes[i] = MarsagliaTsangWangDiscreteSampler.Binomial.of(unused, chunks[i], truth.payerRate());
+        }
     }
 
     /**
@@ -77,7 +86,7 @@ public final class DailyStats {
             this.rng = rng;
             this.binomials = new DiscreteSampler[chunks.length];
             for (int i = 0; i < chunks.length; i++) {
-                binomials[i] = MarsagliaTsangWangDiscreteSampler.Binomial.of(rng, chunks[i], truth.payerRate());
+                binomials[i] = prototypes[i].withUniformRandomProvider(rng);
             }
             this.normal = ZigguratSampler.NormalizedGaussian.of(rng);
         }
@@ -94,7 +103,7 @@ public final class DailyStats {
             }
             double mu = truth.logSpendMean(), sigma = truth.logSpendSd();
             double s1 = 0, s2 = 0;
-            if (m > 0) {
+            if (m > 0 && truth.hasSpend()) {
                 s1 = m * mu + Math.sqrt((double) m) * sigma * normal.sample();
                 double within = m > 1
                         ? AhrensDieterMarsagliaTsangGammaSampler.of(rng, 0.5 * (m - 1), 2.0).sample() : 0;

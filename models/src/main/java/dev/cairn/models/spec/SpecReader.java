@@ -37,8 +37,7 @@ public final class SpecReader {
             .enable(DeserializationFeature.FAIL_ON_NULL_FOR_PRIMITIVES)
             .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS);
     private static final JsonNode SCHEMA_TREE = SpecSchema.tree();
-    private static final JsonSchema SCHEMA = JsonSchemaFactory.getInstance(SpecVersion.VersionFlag.V202012)
-            .getSchema(SCHEMA_TREE, SchemaValidatorsConfig.builder().pathType(PathType.JSON_POINTER).build());
+    private static final JsonSchema SCHEMA = compile(SCHEMA_TREE);
 
     /** Most draws a fit may keep in all (chains x draws), so draws fit in memory. */
     public static final long MAX_KEPT_DRAWS = 1_000_000L;
@@ -54,17 +53,28 @@ public final class SpecReader {
      * @throws dev.cairn.models.InputException one line naming the file and the field
      */
     public static Spec read(Path file) {
+        return parse(readText(file, "a spec JSON file"), file.toString());
+    }
+
+    /**
+     * Reads a JSON spec file's text: UTF-8, at most {@link Limits#SPEC_BYTES}.
+     *
+     * @param file the file
+     * @param what what the file should be, for the message when it is a folder
+     * @return the text
+     * @throws dev.cairn.models.InputException one line naming the file
+     */
+    public static String readText(Path file, String what) {
         String origin = file.toString();
         if (Files.isDirectory(file)) {
-            throw new InputException(origin + ": is a folder, expected a spec JSON file");
+            throw new InputException(origin + ": is a folder, expected " + what);
         }
-        String text;
         try {
             if (Files.size(file) > Limits.SPEC_BYTES) {
                 throw new InputException(String.format(Locale.ROOT, "%s: %,d bytes, more than the %,d a spec may have; "
                         + "put the data in a CSV or Parquet file (data.path)", origin, Files.size(file), Limits.SPEC_BYTES));
             }
-            text = StandardCharsets.UTF_8.newDecoder().decode(java.nio.ByteBuffer.wrap(Files.readAllBytes(file))).toString();
+            return StandardCharsets.UTF_8.newDecoder().decode(java.nio.ByteBuffer.wrap(Files.readAllBytes(file))).toString();
         } catch (NoSuchFileException e) {
             throw new InputException(origin + ": no such file");
         } catch (CharacterCodingException e) {
@@ -72,18 +82,17 @@ public final class SpecReader {
         } catch (IOException e) {
             throw new InputException(origin + ": cannot be read (" + e.getMessage() + ")");
         }
-        return parse(text, origin);
     }
 
     /**
-     * Parses and validates spec text; {@code origin} names it in messages.
+     * Parses JSON text into a tree (a byte order mark is skipped; duplicate keys are refused).
      *
-     * @param text   the JSON text
-     * @param origin the spec's name
-     * @return the validated spec
-     * @throws dev.cairn.models.InputException one line naming the field
+     * @param text   the text
+     * @param origin its name, for messages
+     * @return the tree
+     * @throws dev.cairn.models.InputException naming the line and column of a syntax error
      */
-    public static Spec parse(String text, String origin) {
+    public static JsonNode tree(String text, String origin) {
         if (text.startsWith("\uFEFF")) { // a byte order mark some editors write; JSON readers may skip it (RFC 8259)
             text = text.substring(1);
         }
@@ -98,19 +107,57 @@ public final class SpecReader {
         if (tree == null || tree.isMissingNode()) {
             throw new InputException(origin + ": empty file, expected a JSON object");
         }
-        JsonNode rows = tree.path("data").path("rows");
-        if (rows.size() > Limits.INLINE_ROWS) { // before the schema check, whose cost grows with the rows
-            throw new InputException(String.format(Locale.ROOT, "%s: /data/rows: %,d inline rows, more than %,d; put "
-                    + "the data in a CSV or Parquet file (data.path)", origin, rows.size(), Limits.INLINE_ROWS));
-        }
-        Set<ValidationMessage> errors = SCHEMA.validate(tree);
+        return tree;
+    }
+
+    /**
+     * Validates a tree against a JSON Schema (draft 2020-12) and throws the most useful error as one line:
+     * an unknown key with the closest known one, a missing key, a wrong type, with the JSON pointer.
+     *
+     * @param schemaTree the schema
+     * @param schema     the compiled schema
+     * @param tree       the document
+     * @param origin     its name, for messages
+     * @throws dev.cairn.models.InputException on the first error
+     */
+    public static void validate(JsonNode schemaTree, JsonSchema schema, JsonNode tree, String origin) {
+        Set<ValidationMessage> errors = schema.validate(tree);
         if (!errors.isEmpty()) {
             ValidationMessage first = errors.stream()
                     .min(Comparator.comparing((ValidationMessage m) -> rank(m.getType()))
                             .thenComparing(m -> m.getInstanceLocation().toString()))
                     .orElseThrow();
-            throw new InputException(origin + ": " + describe(first));
+            throw new InputException(origin + ": " + describe(schemaTree, first));
         }
+    }
+
+    /**
+     * Compiles a JSON Schema (draft 2020-12) whose errors carry JSON pointers.
+     *
+     * @param schemaTree the schema
+     * @return the compiled schema
+     */
+    public static JsonSchema compile(JsonNode schemaTree) {
+        return JsonSchemaFactory.getInstance(SpecVersion.VersionFlag.V202012)
+                .getSchema(schemaTree, SchemaValidatorsConfig.builder().pathType(PathType.JSON_POINTER).build());
+    }
+
+    /**
+     * Parses and validates spec text; {@code origin} names it in messages.
+     *
+     * @param text   the JSON text
+     * @param origin the spec's name
+     * @return the validated spec
+     * @throws dev.cairn.models.InputException one line naming the field
+     */
+    public static Spec parse(String text, String origin) {
+        JsonNode tree = tree(text, origin);
+        JsonNode rows = tree.path("data").path("rows");
+        if (rows.size() > Limits.INLINE_ROWS) { // before the schema check, whose cost grows with the rows
+            throw new InputException(String.format(Locale.ROOT, "%s: /data/rows: %,d inline rows, more than %,d; put "
+                    + "the data in a CSV or Parquet file (data.path)", origin, rows.size(), Limits.INLINE_ROWS));
+        }
+        validate(SCHEMA_TREE, SCHEMA, tree, origin);
         JsonNode columns = tree.path("data").path("columns");
         DataSpec.ALIASES.forEach((alias, key) -> {
             if (columns.has(alias) && columns.has(key)) {
@@ -143,14 +190,14 @@ public final class SpecReader {
         };
     }
 
-    private static String describe(ValidationMessage m) {
+    private static String describe(JsonNode schemaTree, ValidationMessage m) {
         String at = m.getInstanceLocation().toString();
         String pointer = at.isEmpty() ? "/" : at;
         switch (m.getType()) {
             case "additionalProperties" -> {
                 String key = m.getProperty();
                 String path = at + "/" + key;
-                String hint = closest(key, SpecSchema.keysAt(SCHEMA_TREE, at));
+                String hint = closest(key, SpecSchema.keysAt(schemaTree, at));
                 return path + ": unknown key '" + key + "'" + (hint == null ? "" : " (did you mean '" + hint + "'?)");
             }
             case "required" -> {

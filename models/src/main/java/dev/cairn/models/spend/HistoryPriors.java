@@ -29,11 +29,19 @@ import java.util.Map;
  * </ul>
  * Where history shows no variation beyond noise, the cap applies.
  */
-final class HistoryPriors {
+public final class HistoryPriors {
     private HistoryPriors() {
     }
 
-    static SpendPriors fit(String path, Path baseDir) {
+    /**
+     * Fits the priors to a table of past periods.
+     *
+     * @param path    the table, as the spec writes it
+     * @param baseDir the spec's folder
+     * @return the priors (source "history")
+     * @throws InputException naming the file and line of bad rows, or too little history
+     */
+    public static SpendPriors fit(String path, Path baseDir) {
         double[][] rows = read(path, baseDir);
         int k = rows.length;
         if (k < 2) {
