@@ -17,7 +17,7 @@ import picocli.CommandLine.Option;
         description = {
             "Build the demo data - Lantern Reef, an invented game by the invented studio Driftwood Forge, "
                 + "testing four store layouts on 160,000 simulated players with known true parameters - and "
-                + "fit every example spec on it.",
+                + "fit every example spec on it; then plan the next test from the first fit (cairn plan).",
             "Exit code 0 when every fit converged, 3 otherwise."
         })
 final class DemoCommand implements Callable<Integer> {
@@ -54,6 +54,15 @@ final class DemoCommand implements Callable<Integer> {
             return ExitCodes.BAD_INPUT;
         }
         boolean all = fitted.stream().allMatch(f -> f.outcome().result().converged());
+        if (all) {
+            Demo.PlanExample plan = Demo.runPlan(out, Runtime.getRuntime().availableProcessors());
+            dev.cairn.cli.report.PlanReport.write(plan.plan(), plan.spec(), plan.folder());
+            stdout.println();
+            stdout.println("=== " + plan.spec() + " (cairn plan) ===");
+            stdout.print(PlanPrinter.print(plan.plan()));
+            stdout.println("Wrote " + plan.folder().resolve("plan.json") + ", plan.csv and report.html");
+            stdout.flush();
+        }
         return all ? ExitCodes.OK : ExitCodes.NOT_CONVERGED;
     }
 }

@@ -15,7 +15,8 @@ import picocli.CommandLine.Command;
                 + "consumer-protection law, rules for minors and paid random items, and app-store policies. "
                 + "The output is not financial or legal advice."
         },
-        subcommands = {FitCommand.class, DiagnoseCommand.class, DemoCommand.class, SchemaCommand.class, ServeCommand.class,
+        subcommands = {FitCommand.class, PlanCommand.class, DiagnoseCommand.class, DemoCommand.class, SchemaCommand.class,
+            ServeCommand.class,
             CommandLine.HelpCommand.class})
 public final class Main implements Runnable {
 

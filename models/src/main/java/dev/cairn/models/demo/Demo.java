@@ -71,6 +71,36 @@ public final class Demo {
         return out;
     }
 
+    /** The example plan spec: the next test, planned from the first example's fit (its baseline). */
+    public static final String PLAN = "store-layout-next.plan.json";
+
+    /** The example plan, run: its spec name, the folder its outputs went to, and the figures. */
+    public record PlanExample(String spec, Path folder, dev.cairn.models.plan.PlanResult plan) {
+    }
+
+    /**
+     * Writes the example plan spec into {@code dir} and runs it; its baseline is drawn from the posterior of
+     * {@code store-layout-arpu}'s control, so {@link #run} must have run into the same folder first.
+     *
+     * @param dir     the demo's folder
+     * @param threads worker threads
+     * @return the plan, with plan.json and plan.csv written into its folder
+     */
+    public static PlanExample runPlan(Path dir, int threads) {
+        try {
+            Path spec = dir.resolve(PLAN);
+            Files.writeString(spec, exampleText(PLAN), StandardCharsets.UTF_8);
+            dev.cairn.models.plan.PlanResult plan = dev.cairn.models.plan.Planner.run(
+                    dev.cairn.models.plan.PlanReader.read(spec), threads, dev.cairn.samplers.Progress.NONE);
+            Path folder = dir.resolve(PLAN.replaceFirst("\\.json$", "").replace('.', '-'));
+            Files.createDirectories(folder);
+            dev.cairn.models.plan.PlanFiles.write(plan, folder);
+            return new PlanExample(PLAN, folder, plan);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
     private static String resource(String name) {
         try (InputStream in = Demo.class.getResourceAsStream(EXAMPLES + name)) {
             if (in == null) {
