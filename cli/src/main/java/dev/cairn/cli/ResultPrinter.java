@@ -193,6 +193,34 @@ final class ResultPrinter {
         return String.format(Locale.ROOT, "%.4g%%", 100 * interval).replaceFirst("\\.?0+%$", "%");
     }
 
+    /**
+     * The timeline, at most about a dozen periods (evenly spaced, the last always): users so far, the
+     * best-looking arm with its P(best) and its lift, and what the rule said then.
+     */
+    static void timeline(StringBuilder sb, Result r) {
+        List<dev.cairn.models.result.TimelineDay> t = r.timeline();
+        String metric = r.decision() != null ? label(r.decision().metric()) : "the decided metric";
+        sb.append("\nTimeline (").append(t.size()).append(t.size() == 1 ? " period" : " periods")
+                .append(", everything up to the end of each; decided on ").append(metric).append("):\n");
+        sb.append(String.format(Locale.ROOT, "  %-12s  %12s  %-24s  %-28s  %s%n", "time", "users", "best-looking (P)",
+                "its lift [lo, hi]", "rule said"));
+        int step = Math.max(1, (t.size() + 11) / 12);
+        for (int i = 0; i < t.size(); i++) {
+            if (i % step != 0 && i != t.size() - 1) {
+                continue;
+            }
+            dev.cairn.models.result.TimelineDay d = t.get(i);
+            long users = d.users().values().stream().mapToLong(Long::longValue).sum();
+            String best = "-", lift = "-";
+            if (d.arm() != null) {
+                best = TerminalText.escape(d.arm()) + " (" + dev.cairn.models.result.Format.probability(d.probBest().get(d.arm())) + ")";
+                lift = d.arm().equals(r.control()) ? "control" : dev.cairn.models.result.Format.lift(d.lift().get(d.arm()));
+            }
+            sb.append(String.format(Locale.ROOT, "  %-12s  %,12d  %-24s  %-28s  %s%n", String.valueOf(d.time()), users,
+                    best, lift, d.outcome()));
+        }
+    }
+
     static String spend(Result r) {
         String level = levelLabel(r.interval());
         StringBuilder sb = new StringBuilder();
@@ -255,6 +283,9 @@ final class ResultPrinter {
             e.getValue().forEach((arm, p) -> parts.append(parts.length() == 0 ? "" : ", ")
                     .append(arm).append(' ').append(dev.cairn.models.result.Format.probability(p)));
             sb.append(parts).append('\n');
+        }
+        if (r.timeline() != null) {
+            timeline(sb, r);
         }
         long misfits = r.checks().stream().filter(Check::misfit).count();
         if (!r.checks().isEmpty()) {

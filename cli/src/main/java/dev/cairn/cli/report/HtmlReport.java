@@ -71,6 +71,9 @@ public final class HtmlReport {
             ReportSections.comparisonTable(sb, r.comparisons(), r.currency());
             sb.append("</section>\n");
         }
+        if (r instanceof Result spend && spend.timeline() != null) {
+            ReportSections.timeline(sb, spend);
+        }
         ReportSections.priors(sb, r);
         diagnostics(sb, r.diagnostics(), outcome.draws());
         sb.append("</main></body></html>\n");

@@ -189,4 +189,72 @@ final class ReportSections {
         }
         sb.append("</table>");
     }
+
+    /**
+     * The timeline: the lift of each arm over the control as data arrived (median, and the interval dashed),
+     * P(best) per period, and a table of every period.
+     */
+    static void timeline(StringBuilder sb, dev.cairn.models.result.Result r) {
+        List<dev.cairn.models.result.TimelineDay> t = r.timeline();
+        List<String> arms = new java.util.ArrayList<>(r.arms().keySet());
+        int[] x = java.util.stream.IntStream.rangeClosed(1, t.size()).toArray();
+        String metric = r.decision() != null ? Metric.of(r.decision().metric()).label() : "the decided metric";
+        List<String> names = new java.util.ArrayList<>();
+        List<double[]> ys = new java.util.ArrayList<>();
+        List<Boolean> dashed = new java.util.ArrayList<>();
+        List<Integer> colours = new java.util.ArrayList<>();
+        for (int k = 0; k < arms.size(); k++) {
+            String arm = arms.get(k);
+            if (arm.equals(r.control())) {
+                continue;
+            }
+            for (String part : new String[] {"median", "lo", "hi"}) {
+                double[] y = new double[t.size()];
+                for (int i = 0; i < t.size(); i++) {
+                    dev.cairn.models.result.Interval lift = t.get(i).lift() == null ? null : t.get(i).lift().get(arm);
+                    y[i] = lift == null ? Double.NaN : switch (part) {
+                        case "median" -> lift.median();
+                        case "lo" -> lift.lo();
+                        default -> lift.hi();
+                    };
+                }
+                names.add(arm + (part.equals("median") ? "" : " " + part));
+                ys.add(y);
+                dashed.add(!part.equals("median"));
+                colours.add(k);
+            }
+        }
+        List<double[]> best = new java.util.ArrayList<>();
+        for (String arm : arms) {
+            best.add(t.stream().mapToDouble(d -> d.probBest() == null ? Double.NaN : d.probBest().get(arm)).toArray());
+        }
+        boolean[] dash = new boolean[dashed.size()];
+        for (int i = 0; i < dash.length; i++) {
+            dash[i] = dashed.get(i);
+        }
+        sb.append("<section id=\"timeline\"><h2>Timeline</h2><p class=\"note\">Each period's figures use all data up "
+                + "to its end; period 1 is ").append(HtmlReport.esc(String.valueOf(t.get(0).time()))).append(", period ")
+                .append(t.size()).append(" is ").append(HtmlReport.esc(String.valueOf(t.get(t.size() - 1).time())))
+                .append(". Dashed: the interval's ends.</p><div class=\"grid\">");
+        sb.append(Charts.lines("Lift over " + r.control() + " on " + metric, "period", "lift", true, names, x, ys, dash,
+                colours.stream().mapToInt(Integer::intValue).toArray(), 0.0, "no lift"));
+        sb.append(Charts.lines("P(best) on " + metric, "period", "probability", true, arms, x, best, new boolean[arms.size()],
+                java.util.stream.IntStream.range(0, arms.size()).toArray(), null, null));
+        sb.append("</div><table><tr><th>period</th><th>time</th><th>users</th><th>payers</th><th>best-looking</th>"
+                + "<th>P(best)</th><th>expected loss</th><th>rule said</th></tr>");
+        for (int i = 0; i < t.size(); i++) {
+            dev.cairn.models.result.TimelineDay d = t.get(i);
+            sb.append("<tr><td>").append(i + 1).append("</td><td>").append(HtmlReport.esc(String.valueOf(d.time())))
+                    .append("</td><td>").append(String.format(java.util.Locale.ROOT, "%,d",
+                            d.users().values().stream().mapToLong(Long::longValue).sum()))
+                    .append("</td><td>").append(String.format(java.util.Locale.ROOT, "%,d",
+                            d.payers().values().stream().mapToLong(Long::longValue).sum()))
+                    .append("</td><td>").append(HtmlReport.esc(d.arm() == null ? "-" : d.arm())).append("</td><td>")
+                    .append(d.arm() == null ? "-" : dev.cairn.models.result.Format.probability(d.probBest().get(d.arm())))
+                    .append("</td><td>").append(d.arm() == null ? "-" : HtmlReport.esc(dev.cairn.models.result.Format.sig(
+                            d.expectedLoss().get(d.arm()), 3))).append("</td><td>").append(HtmlReport.esc(d.outcome()))
+                    .append("</td></tr>");
+        }
+        sb.append("</table></section>\n");
+    }
 }

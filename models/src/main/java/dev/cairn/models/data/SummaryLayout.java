@@ -222,6 +222,9 @@ final class SummaryLayout {
     static void refuseOtherColumns(Source source, DataSpec data, String segment) {
         List<String> expected = new ArrayList<>(List.of(data.column(ARM, ARM), data.column(USERS, USERS),
                 data.column(PAYERS, PAYERS), data.column("logSpendSum", LOG_SUM), data.column("logSpendSqSum", LOG_SQ_SUM)));
+        if (data.mapped("time")) {
+            expected.add(data.column("time", "time")); // read by the timeline (TimelineData)
+        }
         if (segment != null) {
             expected.add(segment);
         }

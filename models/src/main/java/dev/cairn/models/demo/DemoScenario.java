@@ -53,11 +53,18 @@ public final class DemoScenario {
     static final String[] REGIONS = {"north-isles", "coral-coast", "east-shoals", "far-atoll", "deep-trench", "mist-bay"};
     static final double[] REGION_SHARES = {0.34, 0.26, 0.18, 0.12, 0.07, 0.03};
 
+    /** The first install date of the demo test. */
+    public static final java.time.LocalDate START = java.time.LocalDate.of(2026, 10, 1);
+    /** Days over which players joined. */
+    public static final int DAYS = 14;
+
     private DemoScenario() {
     }
 
     /**
-     * Writes the per-user CSV (user_id, store_variant, region, spend_d7) into {@code dir}.
+     * Writes the per-user CSV (user_id, store_variant, region, install_date, spend_d7) into {@code dir}. Players
+     * joined the test over {@link #DAYS} days from {@link #START}, in equal numbers per day (no random draw, so
+     * the other columns are the same as without the date).
      *
      * @param dir the folder
      * @return the file written
@@ -69,10 +76,11 @@ public final class DemoScenario {
         try {
             Files.createDirectories(dir);
             try (Writer w = Files.newBufferedWriter(file, StandardCharsets.UTF_8)) {
-                w.write("user_id,store_variant,region,spend_d7\n");
+                w.write("user_id,store_variant,region,install_date,spend_d7\n");
                 long id = 100_000;
                 StringBuilder sb = new StringBuilder(64);
                 for (int u = 0; u < USERS_PER_ARM; u++) {
+                    String date = START.plusDays((long) u * DAYS / USERS_PER_ARM).toString();
                     for (Arm arm : ARMS) {
                         double spend = 0;
                         if (rng.nextDouble() < arm.payerRate()) {
@@ -81,7 +89,7 @@ public final class DemoScenario {
                         }
                         sb.setLength(0);
                         sb.append(id++).append(',').append(arm.name()).append(',').append(region(rng.nextDouble()))
-                                .append(',').append(String.format(Locale.ROOT, "%.2f", spend)).append('\n');
+                                .append(',').append(date).append(',').append(String.format(Locale.ROOT, "%.2f", spend)).append('\n');
                         w.write(sb.toString());
                     }
                 }

@@ -14,17 +14,19 @@ import java.util.Map;
  * @param currency the ISO 4217 code of money figures, or null
  * @param segments segmented-spend only: per segment, its arms and comparisons (pooled, with raw lifts)
  * @param probBest metric -> arm -> P(arm is the best of all arms on that metric)
+ * @param timeline spend with data.columns.time: the evidence and decision at the end of each period; else null
  * @param priors   the priors used (defaults included), for the record
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 @JsonPropertyOrder({"model", "title", "converged", "decision", "control", "controlSource", "interval", "currency", "data", "arms", "comparisons", "segments",
-    "probBest", "checks",
+    "probBest", "timeline", "checks",
     "diagnostics", "run", "priors", "warnings", "cautions"})
 public record Result(String model, String title, boolean converged, Decision decision, String control,
                      String controlSource, double interval, String currency, DataInfo data,
                      Map<String, ArmSummary> arms, List<Comparison> comparisons, Map<String, SegmentSummary> segments,
-                     Map<String, Map<String, Double>> probBest, List<Check> checks, DiagnosticsSummary diagnostics,
-                     Run run, PriorsUsed priors, List<String> warnings, List<String> cautions) implements FitResult {
+                     Map<String, Map<String, Double>> probBest, List<TimelineDay> timeline, List<Check> checks,
+                     DiagnosticsSummary diagnostics, Run run, PriorsUsed priors, List<String> warnings,
+                     List<String> cautions) implements FitResult {
 
     /** Shown with every result (DESIGN: cautions the tool shows). */
     public static final List<String> CAUTIONS = List.of(

@@ -107,7 +107,7 @@ public final class SegmentedFit {
                         arm -> draws.pooled(SegmentedOutputs.cell(decided.key(), SegmentedOutputs.POPULATION, arm))),
                 control, fitting.controlSource(), level, fitting.currency(),
                 new DataInfo(data.source(), spec.data().layout(), data.rows(), total, data.query()), overall,
-                comparisons, perSegment, probBest, List.of(), fitting.summary(),
+                comparisons, perSegment, probBest, null, List.of(), fitting.summary(),
                 fitting.run(method, model.layout.describe(own.parameterisation())),
                 new dev.cairn.models.result.PriorsUsed.Documented("documented in SegmentedDensity: alpha0 ~ N(-3, 2^2); D, E ~ N(0, 1); "
                         + "beta0 ~ N(0, 5^2); s0 ~ N(0, 1); tauAlpha, tauBeta ~ half-N(1); tauD, tauE, tauS ~ half-N(0.5)"),

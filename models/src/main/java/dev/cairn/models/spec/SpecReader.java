@@ -321,6 +321,11 @@ public final class SpecReader {
             throw new InputException(origin + ": /data/missingSpend: applies to the 'users' layout only (a "
                     + "spend cell per user), not '" + spec.data().layout() + "'");
         }
+        if (spec.data().mapped("time") && !("spend".equals(spec.model())
+                && ("users".equals(spec.data().layout()) || "summary".equals(spec.data().layout())))) {
+            throw new InputException(origin + ": /data/columns/time: a timeline applies to model 'spend' with layout "
+                    + "'users' or 'summary', not model '" + spec.model() + "' with layout '" + spec.data().layout() + "'");
+        }
         if (spec.data().path() != null && spec.data().rows() != null) {
             throw new InputException(origin + ": /data: give exactly one of 'path' and 'rows'");
         }

@@ -88,9 +88,29 @@ public final class SpendFit {
                 SpendAnalysis.arms(draws, data, level),
                 SpendAnalysis.comparisons(draws, data, control, level), null,
                 SpendAnalysis.probBest(draws, data),
+                timeline(spec, baseDir, data, arms, control, decided, priors, fitting, warnings),
                 checks, fitting.summary(), fitting.run(method, null),
                 priors, warnings, Result.CAUTIONS);
         return new FitOutcome(result, draws, new dev.cairn.models.Figures(checked.replicated(), java.util.Map.of()));
+    }
+
+    /** The timeline when the spec maps data.columns.time, else null; a note joins the warnings when it needs one. */
+    private static List<dev.cairn.models.result.TimelineDay> timeline(Spec spec, Path baseDir, SpendData data,
+            List<String> arms, String control, Metric metric, SpendPriors priors, Fitting fitting, List<String> warnings) {
+        if (!spec.data().mapped("time")) {
+            return null;
+        }
+        List<dev.cairn.models.data.TimelineData.Period> periods = dev.cairn.models.data.TimelineData.read(spec.data(),
+                baseDir, arms);
+        SpendPriors used = priors.conjugate() ? priors : SpendPriors.fromSpec(new dev.cairn.models.spec.PriorsSpec(
+                spec.priorsOrEmpty().payerRate(), null, null, null, null));
+        if (!priors.conjugate() && data.hasSpend()) {
+            warnings.add("timeline: computed under the conjugate default log-spend prior (exact draws each period); "
+                    + "the fit itself used the spec's non-conjugate priors");
+        }
+        SamplerSpec s = spec.samplerOrDefault();
+        return Timeline.of(periods, arms, control, metric, used, spec.decisionTolerance(), fitting.level(),
+                fitting.currency(), s.seed(), s.chains() * s.draws());
     }
 
     /** auto: exact for conjugate priors or conversion-only data, slice sampling otherwise. */
