@@ -12,9 +12,7 @@ import dev.cairn.models.spend.SpendPriors;
 import dev.cairn.samplers.Draws;
 import dev.cairn.samplers.DrawsCsv;
 import java.io.IOException;
-import java.io.InputStream;
 import java.io.Reader;
-import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.NoSuchFileException;
@@ -41,14 +39,7 @@ public final class PlanReader {
 
     /** {@return the plan spec's JSON Schema (draft 2020-12), as bundled in the jar} */
     public static String schemaText() {
-        try (InputStream in = PlanReader.class.getResourceAsStream(RESOURCE)) {
-            if (in == null) {
-                throw new IllegalStateException("schema resource missing from the jar: " + RESOURCE);
-            }
-            return new String(in.readAllBytes(), StandardCharsets.UTF_8);
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
+        return dev.cairn.models.spec.SpecSchema.resourceText(RESOURCE);
     }
 
     /**

@@ -21,9 +21,20 @@ public final class SpecSchema {
      * {@return the spec's JSON schema (draft 2020-12), as bundled in the jar}
      */
     public static String text() {
-        try (InputStream in = SpecSchema.class.getResourceAsStream(RESOURCE)) {
+        return resourceText(RESOURCE);
+    }
+
+    /**
+     * A schema bundled in the jar, as text.
+     *
+     * @param resource the resource's absolute name
+     * @return its text (UTF-8)
+     * @throws IllegalStateException when the jar lacks it
+     */
+    public static String resourceText(String resource) {
+        try (InputStream in = SpecSchema.class.getResourceAsStream(resource)) {
             if (in == null) {
-                throw new IllegalStateException("schema resource missing from the jar: " + RESOURCE);
+                throw new IllegalStateException("schema resource missing from the jar: " + resource);
             }
             return new String(in.readAllBytes(), StandardCharsets.UTF_8);
         } catch (IOException e) {
