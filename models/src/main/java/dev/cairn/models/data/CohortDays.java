@@ -62,8 +62,8 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
     }
 
     /**
-     * Reads a cohort-days table (a file through the SQL engine, or inline rows in memory); bad rows are refused
-     * with their place.
+     * Reads a cohort-days table (a file through the SQL engine, or inline rows in memory), or raw activity
+     * (layout {@code activity}, aggregated by {@link ActivityLayout}); bad rows are refused with their place.
      *
      * @param data     the spec's data part
      * @param baseDir  the folder relative paths resolve against
@@ -72,6 +72,9 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
      * @throws InputException one line naming the file, row or column
      */
     public static CohortDays read(DataSpec data, Path baseDir, boolean survival) {
+        if ("activity".equals(data.layout())) {
+            return ActivityLayout.read(data, baseDir, survival);
+        }
         if (data.rows() != null) {
             return readInline(data, survival);
         }

@@ -45,7 +45,7 @@ public final class RetentionModel implements Model {
 
     @Override
     public List<String> layouts() {
-        return List.of("cohort-days");
+        return List.of("cohort-days", "activity");
     }
 
     @Override

@@ -15,10 +15,12 @@ import java.util.Map;
  *
  * @param missingSpend {@code "zero"} reads a blank spend cell (users layout) as no purchase; {@code null} or
  *                     {@code "refuse"} refuses it
+ * @param cohortPeriod activity layout: {@code "day"} (default) or {@code "week"} (Monday to Sunday) cohorts
+ * @param asOf         activity layout: the cut-off date, YYYY-MM-DD (default: the latest active date)
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record DataSpec(String path, String layout, Map<String, String> columns, List<JsonNode> rows,
-                       String missingSpend) {
+                       String missingSpend, String cohortPeriod, String asOf) {
 
     /** Column keys that may also be written as the column names they default to. */
     static final Map<String, String> ALIASES = Map.of("log_spend_sum", "logSpendSum",
@@ -33,7 +35,11 @@ public record DataSpec(String path, String layout, Map<String, String> columns, 
     }
 
     public DataSpec(String path, String layout, Map<String, String> columns, List<JsonNode> rows) {
-        this(path, layout, columns, rows, null);
+        this(path, layout, columns, rows, null, null, null);
+    }
+
+    public DataSpec(String path, String layout, Map<String, String> columns, List<JsonNode> rows, String missingSpend) {
+        this(path, layout, columns, rows, missingSpend, null, null);
     }
 
     /**

@@ -326,6 +326,10 @@ public final class SpecReader {
             throw new InputException(origin + ": /data/columns/time: a timeline applies to model 'spend' with layout "
                     + "'users' or 'summary', not model '" + spec.model() + "' with layout '" + spec.data().layout() + "'");
         }
+        if ((spec.data().cohortPeriod() != null || spec.data().asOf() != null) && !"activity".equals(spec.data().layout())) {
+            throw new InputException(origin + ": /data/" + (spec.data().cohortPeriod() != null ? "cohortPeriod" : "asOf")
+                    + ": applies to layout 'activity' (raw activity rows), not '" + spec.data().layout() + "'");
+        }
         if (spec.data().path() != null && spec.data().rows() != null) {
             throw new InputException(origin + ": /data: give exactly one of 'path' and 'rows'");
         }
