@@ -17,8 +17,9 @@ import java.util.List;
  * line and column, never dropped.
  *
  * <p>The {@code users} layout query is {@link #usersQuery}: one scan, grouped by arm, counting users and
- * gathering the non-zero values, from which come payers, log spend and its square summed over payers, the
- * observed statistics the predictive checks need and the checks for bad values.
+ * gathering the non-zero values, from which come payers, the observed statistics the predictive checks need
+ * and the checks for bad values; the payers' values are handed to {@link ExactSums}, whose sums of log spend,
+ * its square and spend are exact, so that any engine that adds the same quanta gets the same bits.
  */
 public final class SpendDataReader {
     static final String ARM = "arm";
@@ -169,9 +170,15 @@ public final class SpendDataReader {
                         negative += min < 0 ? 1 : 0;
                         double payerMin = orNaN(r, "payer_min");
                         outOfRange |= payerMin < SMALLEST_SPEND || max > LARGEST_SPEND;
-                        arms.add(new ArmStats(name, users, r.getLong("payers"), r.getDouble("log_spend_sum"),
-                                r.getDouble("log_spend_sq_sum"), sum, orNaN(r, "payer_p50"), orNaN(r, "payer_p90"),
-                                orNaN(r, "payer_p99"), max));
+                        ExactSums.PayerSums sums = new ExactSums.PayerSums();
+                        java.sql.Array paid = r.getArray("paid");
+                        if (paid != null && !outOfRange && !notFinite && min >= 0) {
+                            for (Object y : (Object[]) paid.getArray()) {
+                                sums.add(((Number) y).doubleValue());
+                            }
+                        }
+                        arms.add(new ArmStats(name, users, r.getLong("payers"), sums.logSum(), sums.logSqSum(),
+                                sums.spendSum(), orNaN(r, "payer_p50"), orNaN(r, "payer_p90"), orNaN(r, "payer_p99"), max));
                     } else {
                         arms.add(ArmStats.conversions(name, users, r.getLong("payers")));
                     }
@@ -261,8 +268,7 @@ public final class SpendDataReader {
         return """
                 SELECT %1$s, users, present,
                        coalesce(len(paid), 0) AS payers,
-                       coalesce(list_sum(list_transform(paid, lambda y: ln(y))), 0) AS log_spend_sum,
-                       coalesce(list_sum(list_transform(paid, lambda y: ln(y) * ln(y))), 0) AS log_spend_sq_sum,
+                       paid,
                        coalesce(list_sum(paid), 0) AS spend_sum,
                        CASE WHEN present > coalesce(len(nonzero), 0) THEN least(coalesce(nonzero[1], 0), 0)
                             ELSE nonzero[1] END AS spend_min,

@@ -18,7 +18,7 @@ import java.util.TreeMap;
 /**
  * The spend statistics of each arm per period of {@code data.columns.time} (a date, YYYY-MM-DD, or a day
  * number), from one grouped scan: {@code users} rows grouped by (time, arm) — users, payers and the payers'
- * spend, whose logs are summed in increasing order of spend so the sums do not depend on the engine's
+ * spend, whose logs are summed exactly ({@link ExactSums}) so the sums do not depend on the engine's
  * threads — or {@code summary} rows summed per (time, arm) in increasing order of each column. The timeline
  * then runs cumulative sums over the periods.
  */
@@ -100,14 +100,12 @@ public final class TimelineData {
         return logSums(rows.size(), payers, spends);
     }
 
-    private static double[] logSums(double users, double payers, double[] sortedSpend) {
-        double s1 = 0, s2 = 0;
-        for (double y : sortedSpend) {
-            double l = Math.log(y);
-            s1 += l;
-            s2 += l * l;
+    private static double[] logSums(double users, double payers, double[] spend) {
+        ExactSums.PayerSums sums = new ExactSums.PayerSums();
+        for (double y : spend) {
+            sums.add(y);
         }
-        return new double[] {users, payers, s1, s2};
+        return new double[] {users, payers, sums.logSum(), sums.logSqSum()};
     }
 
     /** Summary rows of one cell: each column summed in increasing order. */

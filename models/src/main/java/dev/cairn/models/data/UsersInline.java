@@ -14,8 +14,8 @@ import java.util.TreeMap;
 /**
  * The users layout from inline rows without the SQL engine (per-user values handed over in memory): the same
  * column checks, the same row checks in the same order with the same messages, and the same statistics as
- * {@link SpendDataReader#usersQuery}: per cell the users, the payers, and over the payers' spend sorted in
- * increasing order the sums of log spend, of its square and of spend (added in that order), the extremes and
+ * {@link SpendDataReader#usersQuery}: per cell the users, the payers, and over the payers' spend the exact
+ * sums of log spend, of its square and of spend ({@link ExactSums}), the extremes and
  * the p50/p90/p99 order statistics. The parity test compares both paths on valid and broken tables.
  */
 final class UsersInline {
@@ -122,16 +122,14 @@ final class UsersInline {
         nonzero = Arrays.copyOf(nonzero, k);
         Arrays.sort(nonzero);
         double[] paid = Arrays.stream(nonzero).filter(y -> y > 0).toArray();
-        double logSum = 0, logSq = 0, sum = 0;
+        ExactSums.PayerSums sums = new ExactSums.PayerSums();
         for (double y : paid) {
-            double l = Math.log(y);
-            logSum += l;
-            logSq += l * l;
-            sum += y;
+            sums.add(y);
         }
         double max = present == 0 ? Double.NaN // every cell blank: no extreme, as the engine's NULL reads
                 : k == 0 ? 0 : present > k ? Math.max(nonzero[k - 1], 0) : nonzero[k - 1];
-        return new ArmStats(arm, rows.size(), paid.length, logSum, logSq, sum, order(paid, 0.5), order(paid, 0.9),
+        return new ArmStats(arm, rows.size(), paid.length, sums.logSum(), sums.logSqSum(), sums.spendSum(),
+                order(paid, 0.5), order(paid, 0.9),
                 order(paid, 0.99), max);
     }
 
