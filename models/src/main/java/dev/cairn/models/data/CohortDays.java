@@ -72,6 +72,13 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
      * @throws InputException one line naming the file, row or column
      */
     public static CohortDays read(DataSpec data, Path baseDir, boolean survival) {
+        if (StatisticsEngine.external(data)) {
+            StatisticsEngine engine = StatisticsEngine.named(data.engine());
+            List<com.fasterxml.jackson.databind.JsonNode> rows = "activity".equals(data.layout())
+                    ? engine.activity(data, baseDir, survival) : engine.rows(data, baseDir);
+            return StatisticsEngine.fromRows(data, () -> readInline(new DataSpec(null, "cohort-days",
+                    "activity".equals(data.layout()) ? null : data.columns(), rows), survival));
+        }
         if ("activity".equals(data.layout())) {
             return ActivityLayout.read(data, baseDir, survival);
         }

@@ -22,6 +22,10 @@ final class EstimatesReader {
     }
 
     static Estimates read(DataSpec data, Path baseDir) {
+        if (StatisticsEngine.external(data)) {
+            return StatisticsEngine.fromRows(data, () -> readInline(data.withRows(
+                    StatisticsEngine.named(data.engine()).rows(data, baseDir))));
+        }
         if (data.rows() != null) {
             return readInline(data);
         }

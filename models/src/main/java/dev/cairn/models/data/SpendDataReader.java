@@ -80,6 +80,15 @@ public final class SpendDataReader {
     }
 
     private static Cells cells(DataSpec data, Path baseDir, boolean strict, boolean segmented) {
+        if (StatisticsEngine.external(data)) {
+            StatisticsEngine engine = StatisticsEngine.named(data.engine());
+            if ("summary".equals(data.layout())) {
+                return StatisticsEngine.fromRows(data, () -> SummaryLayout.readInline(data.withRows(engine.rows(data, baseDir)),
+                        segmented));
+            }
+            StatisticsEngine.UsersStatistics u = engine.users(data, baseDir, strict, segmented);
+            return new Cells(u.segments(), u.cells(), u.hasSpend(), u.source(), u.rows(), u.warnings(), null);
+        }
         if (data.rows() != null) {
             // data given in memory need no query engine (and fit where its native library is missing)
             return "summary".equals(data.layout()) ? SummaryLayout.readInline(data, segmented)
@@ -245,7 +254,7 @@ public final class SpendDataReader {
      * The range of a positive spend the model represents: far beyond any currency amount, while log spend,
      * its square and the ARPPU of the fitted log-normal stay well inside floating point.
      */
-    static final double SMALLEST_SPEND = 1e-12, LARGEST_SPEND = 1e15;
+    public static final double SMALLEST_SPEND = 1e-12, LARGEST_SPEND = 1e15;
 
     /**
      * The users-layout query: one scan, per arm (per segment and arm when a segment expression is given).
@@ -327,11 +336,25 @@ public final class SpendDataReader {
 
     /** The users layout's warnings: a fit without spend, or blank spend cells read as 0. */
     static List<String> usersWarnings(Source source, DataSpec data, String spend, long blanks) {
+        return usersWarnings(source.name, data, spend, blanks);
+    }
+
+    /**
+     * The users layout's warnings, for any engine: no spend column (a conversion-only fit), or blank spend
+     * cells read as 0.
+     *
+     * @param name   the data's name in messages
+     * @param data   the spec's data part
+     * @param spend  the spend column, or null when there is none
+     * @param blanks blank spend cells read as 0
+     * @return the warnings
+     */
+    public static List<String> usersWarnings(String name, DataSpec data, String spend, long blanks) {
         List<String> warnings = new ArrayList<>();
         if (spend == null) {
-            warnings.add(conversionOnly(source.name + " has no spend column ('" + data.column(SPEND, SPEND) + "')"));
+            warnings.add(conversionOnly(name + " has no spend column ('" + data.column(SPEND, SPEND) + "')"));
         } else if (blanks > 0) {
-            warnings.add(source.name + ", column '" + spend + "': " + blanks + " blank spend cell"
+            warnings.add(name + ", column '" + spend + "': " + blanks + " blank spend cell"
                     + (blanks == 1 ? "" : "s") + " read as 0 (data.missingSpend is \"zero\")");
         }
         return warnings;
@@ -339,8 +362,22 @@ public final class SpendDataReader {
 
     /** Duplicate user ids: a warning, or refused when the spec is strict. */
     static void duplicateUsers(Source source, String user, long duplicates, boolean strict, List<String> warnings) {
+        duplicateUsers(source.name, user, duplicates, strict, warnings);
+    }
+
+    /**
+     * Duplicate user ids, for any engine: a warning, or refused when the spec is strict.
+     *
+     * @param name       the data's name in messages
+     * @param user       the user column
+     * @param duplicates rows less distinct ids
+     * @param strict     whether warnings are errors
+     * @param warnings   receives the warning
+     * @throws InputException when strict and there are duplicates
+     */
+    public static void duplicateUsers(String name, String user, long duplicates, boolean strict, List<String> warnings) {
         if (duplicates > 0) {
-            String message = source.name + ", column '" + user + "': " + duplicates + " duplicate user id"
+            String message = name + ", column '" + user + "': " + duplicates + " duplicate user id"
                     + (duplicates == 1 ? "" : "s") + " (each row is counted as one user)";
             if (strict) {
                 throw new InputException(message + "; refused because the spec is strict");

@@ -17,10 +17,12 @@ import java.util.Map;
  *                     {@code "refuse"} refuses it
  * @param cohortPeriod activity layout: {@code "day"} (default) or {@code "week"} (Monday to Sunday) cohorts
  * @param asOf         activity layout: the cut-off date, YYYY-MM-DD (default: the latest active date)
+ * @param engine       {@code "embedded"} (default) or {@code "spark"}: what computes the statistics
+ * @param table        engine spark: a catalog table to read instead of a file
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record DataSpec(String path, String layout, Map<String, String> columns, List<JsonNode> rows,
-                       String missingSpend, String cohortPeriod, String asOf) {
+                       String missingSpend, String cohortPeriod, String asOf, String engine, String table) {
 
     /** Column keys that may also be written as the column names they default to. */
     static final Map<String, String> ALIASES = Map.of("log_spend_sum", "logSpendSum",
@@ -35,11 +37,26 @@ public record DataSpec(String path, String layout, Map<String, String> columns, 
     }
 
     public DataSpec(String path, String layout, Map<String, String> columns, List<JsonNode> rows) {
-        this(path, layout, columns, rows, null, null, null);
+        this(path, layout, columns, rows, null, null, null, null, null);
     }
 
     public DataSpec(String path, String layout, Map<String, String> columns, List<JsonNode> rows, String missingSpend) {
-        this(path, layout, columns, rows, missingSpend, null, null);
+        this(path, layout, columns, rows, missingSpend, null, null, null, null);
+    }
+
+    public DataSpec(String path, String layout, Map<String, String> columns, List<JsonNode> rows, String missingSpend,
+                    String cohortPeriod, String asOf) {
+        this(path, layout, columns, rows, missingSpend, cohortPeriod, asOf, null, null);
+    }
+
+    /**
+     * The same data part with rows handed over in memory (an engine's table read whole).
+     *
+     * @param rows the rows
+     * @return the copy, reading those rows
+     */
+    public DataSpec withRows(List<JsonNode> rows) {
+        return new DataSpec(null, layout, columns, rows, missingSpend, cohortPeriod, asOf, null, null);
     }
 
     /**

@@ -205,7 +205,8 @@ public final class SpecReader {
             }
             case "oneOf" -> {
                 if (at.equals("/data")) {
-                    return "/data: give exactly one of 'path' (a CSV or Parquet file) and 'rows' (inline rows)";
+                    return "/data: give exactly one of 'path' (a CSV or Parquet file) and 'rows' (inline rows)"
+                            + " (or, with engine spark, 'table')";
                 }
                 return pointer + ": " + stripPath(m.getMessage(), at);
             }
@@ -329,6 +330,17 @@ public final class SpecReader {
         if ((spec.data().cohortPeriod() != null || spec.data().asOf() != null) && !"activity".equals(spec.data().layout())) {
             throw new InputException(origin + ": /data/" + (spec.data().cohortPeriod() != null ? "cohortPeriod" : "asOf")
                     + ": applies to layout 'activity' (raw activity rows), not '" + spec.data().layout() + "'");
+        }
+        if (spec.data().mapped("time") && "spark".equals(spec.data().engine())) {
+            throw new InputException(origin + ": /data/columns/time: the timeline is computed by the embedded engine; "
+                    + "engine 'spark' does not compute it yet");
+        }
+        if (spec.data().table() != null && !"spark".equals(spec.data().engine())) {
+            throw new InputException(origin + ": /data/table: a catalog table is read by engine 'spark' (set data.engine)");
+        }
+        if ("spark".equals(spec.data().engine()) && spec.data().rows() != null) {
+            throw new InputException(origin + ": /data/engine: inline rows are read in memory; engine 'spark' reads "
+                    + "data.path or data.table");
         }
         if (spec.data().path() != null && spec.data().rows() != null) {
             throw new InputException(origin + ": /data: give exactly one of 'path' and 'rows'");

@@ -1,0 +1,116 @@
+package dev.cairn.models.data;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.cairn.models.InputException;
+import dev.cairn.models.spec.DataSpec;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.ServiceLoader;
+
+/**
+ * An engine other than the embedded one that computes the data's statistics ({@code data.engine}), found
+ * through {@link ServiceLoader} by its name. Everything after the statistics is the same code path: the
+ * engine hands over per-cell statistics of the {@code users} layout (exact sums, {@link ExactSums}), the
+ * activity layout as cohort-days rows, and the small tables of the other layouts whole, which the in-memory
+ * readers then check and sum as they do inline rows.
+ */
+public interface StatisticsEngine {
+    /** {@return the name {@code data.engine} selects it by} */
+    String name();
+
+    /**
+     * The {@code users} layout's statistics per cell.
+     *
+     * @param data      the spec's data part
+     * @param baseDir   the spec's folder
+     * @param strict    whether warnings are errors
+     * @param segmented whether cells are (segment, arm) rather than arm
+     * @return the cells
+     * @throws InputException one line naming the data and what is wrong
+     */
+    UsersStatistics users(DataSpec data, Path baseDir, boolean strict, boolean segmented);
+
+    /**
+     * A small table read whole (layouts summary, estimates, cohort-days), each row as a JSON object of its
+     * columns, in the table's order where it has one.
+     *
+     * @param data    the spec's data part
+     * @param baseDir the spec's folder
+     * @return the rows
+     * @throws InputException when the table cannot be read
+     */
+    List<JsonNode> rows(DataSpec data, Path baseDir);
+
+    /**
+     * The {@code activity} layout aggregated into {@code cohort-days} rows (cohort, arm, day, installs,
+     * active), every observed day present, as {@link ActivityLayout} defines them.
+     *
+     * @param data     the spec's data part
+     * @param baseDir  the spec's folder
+     * @param survival whether "active" is still-retained
+     * @return the rows
+     * @throws InputException one line naming the data and what is wrong
+     */
+    List<JsonNode> activity(DataSpec data, Path baseDir, boolean survival);
+
+    /**
+     * The users layout's cells.
+     *
+     * @param segments per cell its segment (null entries when not segmented)
+     * @param cells    per cell its statistics
+     * @param hasSpend whether spend was read (else conversions)
+     * @param source   the data's name for messages
+     * @param rows     rows read
+     * @param warnings what the reader noticed
+     */
+    record UsersStatistics(List<String> segments, List<ArmStats> cells, boolean hasSpend, String source, long rows,
+                           List<String> warnings) {
+    }
+
+    /**
+     * The engine a spec names.
+     *
+     * @param name {@code data.engine}
+     * @return the engine
+     * @throws InputException when no engine of that name is on the class path
+     */
+    static StatisticsEngine named(String name) {
+        for (StatisticsEngine e : ServiceLoader.load(StatisticsEngine.class)) {
+            if (e.name().equals(name)) {
+                return e;
+            }
+        }
+        throw new InputException("/data/engine: '" + name + "' is not available here: the statistics on Spark are "
+                + "computed by cairn's Spark job (spark/target/cairn-spark-job.jar, run with spark-submit); the "
+                + "command line and the service use the embedded engine");
+    }
+
+    /**
+     * Runs an in-memory reader on rows an engine read, naming the data (not the spec) in its messages.
+     *
+     * @param data the spec's data part
+     * @param read the reader
+     * @param <T>  what it reads
+     * @return what it read
+     * @throws InputException the reader's message, with "spec: /data/rows/N" as "DATA (read by ENGINE): row N"
+     */
+    static <T> T fromRows(DataSpec data, java.util.function.Supplier<T> read) {
+        try {
+            return read.get();
+        } catch (InputException e) {
+            String where = (data.table() != null ? "table " + data.table() : data.path()) + " (read by " + data.engine() + ")";
+            throw new InputException(e.getMessage().replace("spec: /data/rows/", where + ": row ")
+                    .replace("inline rows", where));
+        }
+    }
+
+    /**
+     * Whether the spec asks for an engine other than the embedded one.
+     *
+     * @param data the spec's data part
+     * @return true for a named other engine
+     */
+    static boolean external(DataSpec data) {
+        return data.engine() != null && !"embedded".equals(data.engine());
+    }
+}

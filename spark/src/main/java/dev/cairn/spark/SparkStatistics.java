@@ -1,0 +1,360 @@
+package dev.cairn.spark;
+
+import static org.apache.spark.sql.functions.callUDF;
+import static org.apache.spark.sql.functions.col;
+import static org.apache.spark.sql.functions.count;
+import static org.apache.spark.sql.functions.countDistinct;
+import static org.apache.spark.sql.functions.floor;
+import static org.apache.spark.sql.functions.lit;
+import static org.apache.spark.sql.functions.max;
+import static org.apache.spark.sql.functions.row_number;
+import static org.apache.spark.sql.functions.sum;
+import static org.apache.spark.sql.functions.trim;
+import static org.apache.spark.sql.functions.when;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.node.JsonNodeFactory;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import dev.cairn.models.InputException;
+import dev.cairn.models.data.ArmStats;
+import dev.cairn.models.data.ExactSums;
+import dev.cairn.models.data.SpendDataReader;
+import dev.cairn.models.data.StatisticsEngine;
+import dev.cairn.models.spec.DataSpec;
+import java.math.BigDecimal;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import org.apache.spark.sql.Column;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.api.java.UDF1;
+import org.apache.spark.sql.expressions.Window;
+import org.apache.spark.sql.types.DataTypes;
+
+/**
+ * The data's statistics computed by Spark (DataFrame API), from a CSV or Parquet file or a catalog table.
+ *
+ * <p>The {@code users} layout is aggregated on the executors per cell (arm, or segment and arm): users,
+ * payers, and the payers' log spend, its square and spend as exact integer sums of quanta
+ * ({@link ExactSums}: each term computed by the same Java function the embedded engine uses, summed as
+ * DECIMAL(38, 0), which Spark adds exactly), so partitions added in any order give the embedded engine's
+ * bits; the payers' 50th/90th/99th order statistics (for the predictive checks) are picked exactly by rank
+ * within each cell. Only per-cell rows reach the driver. Small tables (summary, estimates, cohort-days) are
+ * read whole and checked by the same in-memory readers as inline rows; the {@code activity} layout is
+ * counted on the executors (distinct users per cohort, arm and day) into cohort-days rows.
+ */
+public final class SparkStatistics implements StatisticsEngine {
+    static final String LOG_UNITS = "cairn_log_units";
+    static final String SPEND_UNITS = "cairn_spend_units";
+
+    @Override
+    public String name() {
+        return "spark";
+    }
+
+    /** {@return the running session (the job's, or a test's)} */
+    static SparkSession session() {
+        SparkSession s = SparkSession.getActiveSession().getOrElse(() -> SparkSession.getDefaultSession().getOrElse(() -> null));
+        if (s == null) {
+            throw new InputException("/data/engine: 'spark' needs a running Spark session (run cairn's Spark job with "
+                    + "spark-submit)");
+        }
+        s.udf().register(LOG_UNITS, (UDF1<Double, Long>) y -> y == null || !(y > 0) ? null : ExactSums.logUnits(y),
+                DataTypes.LongType);
+        s.udf().register(SPEND_UNITS, (UDF1<Double, Long>) y -> y == null || !(y > 0) ? null : ExactSums.spendUnits(y),
+                DataTypes.LongType);
+        return s;
+    }
+
+    /** The data's name in messages: the path as the spec writes it, or the table. */
+    static String name(DataSpec data) {
+        return data.table() != null ? "table " + data.table() : data.path();
+    }
+
+    /** Reads the data: a catalog table, or a CSV (header, every column as text) or Parquet file by extension. */
+    static Dataset<Row> read(DataSpec data, Path baseDir) {
+        SparkSession s = session();
+        if (data.table() != null) {
+            return s.table(data.table());
+        }
+        String path = data.path();
+        String location = path.contains("://") || Path.of(path).isAbsolute() ? path : baseDir.resolve(path).toString();
+        String lower = path.toLowerCase(Locale.ROOT);
+        try {
+            if (lower.endsWith(".parquet")) {
+                return s.read().parquet(location);
+            }
+            if (lower.endsWith(".csv")) {
+                return s.read().option("header", true).option("inferSchema", false).option("mode", "FAILFAST").csv(location);
+            }
+        } catch (RuntimeException e) {
+            throw new InputException(path + ": cannot be read by Spark (" + firstLine(e) + ")");
+        }
+        throw new InputException("data.path: " + path + ": expected a .csv or .parquet file (or data.table)");
+    }
+
+    private static String firstLine(Throwable e) {
+        String m = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
+        return m.lines().findFirst().orElse(m);
+    }
+
+    private static String require(Dataset<Row> df, DataSpec data, String logical, String name) {
+        String c = data.column(logical, logical);
+        if (!Arrays.asList(df.columns()).contains(c)) {
+            throw new InputException(name + ": missing column '" + c + "'" + (data.mapped(logical)
+                    ? " (data.columns." + logical + ")" : " (or set data.columns." + logical + ")")
+                    + "; columns found: '" + String.join("', '", df.columns()) + "'");
+        }
+        return c;
+    }
+
+    private static String optional(Dataset<Row> df, DataSpec data, String logical, String name) {
+        String c = data.column(logical, logical);
+        if (Arrays.asList(df.columns()).contains(c)) {
+            return c;
+        }
+        if (data.mapped(logical)) {
+            require(df, data, logical, name);
+        }
+        return null;
+    }
+
+    /** Refuses the data when some row matches: how many, and the first few values as they read. */
+    private static void refuse(Dataset<Row> df, Column bad, String column, String what, String name) {
+        long n = df.filter(bad).count();
+        if (n > 0) {
+            List<String> shown = new ArrayList<>();
+            for (Row r : df.filter(bad).limit(3).collectAsList()) {
+                shown.add(r.mkString("|"));
+            }
+            throw new InputException(String.format(Locale.ROOT, "%s: %,d row%s, column '%s': %s (e.g. %s)", name, n,
+                    n == 1 ? "" : "s", column, what, String.join("; ", shown)));
+        }
+    }
+
+    @Override
+    public UsersStatistics users(DataSpec data, Path baseDir, boolean strict, boolean segmented) {
+        String name = name(data);
+        Dataset<Row> raw = read(data, baseDir);
+        String armCol = require(raw, data, "arm", name);
+        String segCol = segmented ? require(raw, data, "segment", name) : null;
+        String spendCol = optional(raw, data, "spend", name);
+        String convertedCol = spendCol == null ? optional(raw, data, "converted", name) : null;
+        if (spendCol == null && convertedCol == null) {
+            throw new InputException(name + ": needs a spend column ('" + data.column("spend", "spend")
+                    + "', set data.columns.spend) or a 0/1 conversion column ('" + data.column("converted", "converted")
+                    + "', set data.columns.converted); columns found: '" + String.join("', '", raw.columns()) + "'");
+        }
+        List<Column> keys = new ArrayList<>();
+        List<Column> selected = new ArrayList<>();
+        if (segCol != null) {
+            selected.add(trim(col(segCol).cast("string")).as("segment"));
+            keys.add(col("segment"));
+        }
+        selected.add(trim(col(armCol).cast("string")).as("arm"));
+        keys.add(col("arm"));
+        String valueCol = spendCol != null ? spendCol : convertedCol;
+        selected.add(spendCol != null ? col(valueCol).try_cast("double").as("v") : col(valueCol).cast("string").as("v"));
+        Dataset<Row> df = raw.select(selected.toArray(new Column[0]));
+        refuse(df, col("arm").isNull().or(col("arm").equalTo("")), armCol, "arm is empty", name);
+        if (segCol != null) {
+            refuse(df, col("segment").isNull().or(col("segment").equalTo("")), segCol, "segment is empty", name);
+        }
+        long blanks = 0;
+        boolean blankIsZero = spendCol != null && data.blankSpendIsZero();
+        Column blank = col(valueCol).isNull().or(trim(col(valueCol).cast("string")).equalTo(""));
+        if (!blankIsZero) {
+            refuse(raw, blank, valueCol, spendCol == null ? "value is empty"
+                    : "spend is empty (if a blank means the user did not pay, set data.missingSpend to \"zero\")", name);
+        } else {
+            blanks = raw.filter(blank).count();
+        }
+        if (spendCol != null) {
+            refuse(raw, col(valueCol).isNotNull().and(col(valueCol).try_cast("double").isNull()), valueCol,
+                    "spend must be a number", name);
+            refuse(df, col("v").isNaN().or(col("v").equalTo(Double.POSITIVE_INFINITY)).or(col("v").equalTo(Double.NEGATIVE_INFINITY)),
+                    valueCol, "spend must be a finite number (NaN or infinity found)", name);
+            refuse(df, col("v").lt(0), valueCol, "spend must be >= 0 (0 for users who did not pay)", name);
+            double small = SpendDataReader.SMALLEST_SPEND, large = SpendDataReader.LARGEST_SPEND;
+            refuse(df, col("v").gt(0).and(col("v").lt(small).or(col("v").gt(large))), valueCol, "a positive spend must "
+                    + "lie between " + small + " and " + large + " (the model works with log spend and its square; "
+                    + "rescale the currency unit)", name);
+        } else {
+            Column v = col("v");
+            refuse(df, v.isNotNull().and(v.isin("0", "1", "true", "false", "TRUE", "FALSE", "True", "False").unary_$bang()),
+                    valueCol, "expected true/false or 1/0", name);
+        }
+        Map<List<String>, ArmStats> cells = spendCol != null ? spendCells(df, keys, segCol != null)
+                : conversionCells(df, keys, segCol != null);
+        List<String> segments = new ArrayList<>();
+        List<ArmStats> stats = new ArrayList<>();
+        long rows = 0;
+        for (Map.Entry<List<String>, ArmStats> e : cells.entrySet()) {
+            segments.add(segCol == null ? null : e.getKey().get(0));
+            stats.add(e.getValue());
+            rows += e.getValue().users();
+        }
+        if (rows == 0) {
+            throw new InputException(name + ": no data rows");
+        }
+        List<String> warnings = SpendDataReader.usersWarnings(name, data, spendCol, blanks);
+        String user = data.mapped("user") ? require(raw, data, "user", name) : null;
+        if (user != null) {
+            Row r = raw.agg(count(lit(1)), countDistinct(col(user))).first();
+            SpendDataReader.duplicateUsers(name, user, r.getLong(0) - r.getLong(1), strict, warnings);
+        }
+        return new UsersStatistics(segments, stats, spendCol != null, name, rows, warnings);
+    }
+
+    /** Cells sorted as the embedded engine orders them: by segment, then arm. */
+    private static java.util.TreeMap<List<String>, ArmStats> sortedCells() {
+        return new java.util.TreeMap<>((x, y) -> {
+            for (int i = 0; i < x.size(); i++) {
+                int c = x.get(i).compareTo(y.get(i));
+                if (c != 0) {
+                    return c;
+                }
+            }
+            return 0;
+        });
+    }
+
+    private static List<String> key(Row r, boolean segmented) {
+        return segmented ? List.of(r.getString(r.fieldIndex("segment")), r.getString(r.fieldIndex("arm")))
+                : List.of(r.getString(r.fieldIndex("arm")));
+    }
+
+    private static Map<List<String>, ArmStats> spendCells(Dataset<Row> df, List<Column> keys, boolean segmented) {
+        Column paid = col("v").gt(0);
+        Column l = callUDF(LOG_UNITS, col("v")).cast("decimal(38,0)");
+        Dataset<Row> agg = df.groupBy(keys.toArray(new Column[0])).agg(
+                count(lit(1)).as("users"),
+                count(when(paid, 1)).as("payers"),
+                sum(when(paid, l)).as("l1"),
+                sum(when(paid, l.multiply(l))).as("l2"),
+                sum(when(paid, callUDF(SPEND_UNITS, col("v")).cast("decimal(38,0)"))).as("s"),
+                max(col("v")).as("max"));
+        // order statistics of payer spend: the k-th smallest, k = floor(q (m - 1)) + 1, by rank within the cell
+        Dataset<Row> payers = df.filter(paid).withColumn("rank",
+                row_number().over(Window.partitionBy(keys.toArray(new Column[0])).orderBy(col("v"))));
+        Dataset<Row> counted = payers.join(agg.select(concat(keys, "payers")), keyNames(segmented));
+        Map<List<String>, double[]> orders = new HashMap<>();
+        double[] qs = {0.5, 0.9, 0.99};
+        Column wanted = lit(false);
+        for (double q : qs) {
+            wanted = wanted.or(col("rank").equalTo(floor(lit(q).multiply(col("payers").minus(1))).plus(1)));
+        }
+        for (Row r : counted.filter(wanted).collectAsList()) {
+            long m = r.getLong(r.fieldIndex("payers"));
+            int rank = r.getInt(r.fieldIndex("rank"));
+            double[] o = orders.computeIfAbsent(key(r, segmented), k -> new double[] {Double.NaN, Double.NaN, Double.NaN});
+            for (int i = 0; i < qs.length; i++) {
+                if (rank == (long) Math.floor(qs[i] * (m - 1)) + 1) {
+                    o[i] = r.getDouble(r.fieldIndex("v"));
+                }
+            }
+        }
+        Map<List<String>, ArmStats> cells = sortedCells();
+        for (Row r : agg.collectAsList()) {
+            List<String> key = key(r, segmented);
+            double[] o = orders.getOrDefault(key, new double[] {Double.NaN, Double.NaN, Double.NaN});
+            double max = r.isNullAt(r.fieldIndex("max")) ? Double.NaN : r.getDouble(r.fieldIndex("max"));
+            cells.put(key, new ArmStats(key.get(key.size() - 1), r.getLong(r.fieldIndex("users")),
+                    r.getLong(r.fieldIndex("payers")), units(r, "l1", ExactSums.LOG_SCALE),
+                    units(r, "l2", ExactSums.LOG_SCALE * ExactSums.LOG_SCALE), units(r, "s", ExactSums.SPEND_SCALE),
+                    o[0], o[1], o[2], max));
+        }
+        return cells;
+    }
+
+    private static Column[] concat(List<Column> keys, String extra) {
+        List<Column> all = new ArrayList<>(keys);
+        all.add(col(extra));
+        return all.toArray(new Column[0]);
+    }
+
+    private static scala.collection.immutable.Seq<String> keyNames(boolean segmented) {
+        List<String> names = segmented ? List.of("segment", "arm") : List.of("arm");
+        return scala.jdk.javaapi.CollectionConverters.asScala(names).toList();
+    }
+
+    /** An exact DECIMAL(38, 0) sum of quanta as the double {@link ExactSums} gives for it (0 when null). */
+    private static double units(Row r, String column, double scale) {
+        int i = r.fieldIndex(column);
+        BigDecimal d = r.isNullAt(i) ? BigDecimal.ZERO : r.getDecimal(i);
+        return ExactSums.value(d.toBigIntegerExact(), scale);
+    }
+
+    private static Map<List<String>, ArmStats> conversionCells(Dataset<Row> df, List<Column> keys, boolean segmented) {
+        Column yes = col("v").isin("1", "true", "TRUE", "True");
+        Map<List<String>, ArmStats> cells = sortedCells();
+        for (Row r : df.groupBy(keys.toArray(new Column[0])).agg(count(lit(1)).as("users"), count(when(yes, 1)).as("payers"))
+                .collectAsList()) {
+            List<String> key = key(r, segmented);
+            cells.put(key, ArmStats.conversions(key.get(key.size() - 1), r.getLong(r.fieldIndex("users")),
+                    r.getLong(r.fieldIndex("payers"))));
+        }
+        return cells;
+    }
+
+    @Override
+    public List<JsonNode> rows(DataSpec data, Path baseDir) {
+        Dataset<Row> df = read(data, baseDir);
+        long n = df.count();
+        if (n > dev.cairn.models.Limits.INLINE_ROWS) {
+            throw new InputException(String.format(Locale.ROOT, "%s: %,d rows; a %s table is read whole and may have at "
+                    + "most %,d", name(data), n, data.layout(), dev.cairn.models.Limits.INLINE_ROWS));
+        }
+        String[] columns = df.columns();
+        List<JsonNode> out = new ArrayList<>();
+        for (Row r : df.collectAsList()) {
+            ObjectNode o = JsonNodeFactory.instance.objectNode();
+            for (int i = 0; i < columns.length; i++) {
+                o.set(columns[i], value(r.get(i)));
+            }
+            out.add(o);
+        }
+        return out;
+    }
+
+    /** A cell as the in-memory readers take it: numbers as numbers (text that reads as one too), the rest as text. */
+    static JsonNode value(Object v) {
+        JsonNodeFactory f = JsonNodeFactory.instance;
+        if (v == null) {
+            return f.nullNode();
+        }
+        if (v instanceof Number n) {
+            return n instanceof Long || n instanceof Integer || n instanceof Short ? f.numberNode(n.longValue())
+                    : f.numberNode(n.doubleValue());
+        }
+        if (v instanceof Boolean b) {
+            return f.booleanNode(b);
+        }
+        String t = v.toString();
+        String s = t.strip();
+        if (!s.isEmpty() && (Character.isDigit(s.charAt(0)) || s.charAt(0) == '-' || s.charAt(0) == '.')) {
+            try {
+                if (s.matches("-?[0-9]+")) {
+                    return f.numberNode(Long.parseLong(s));
+                }
+                if (!s.matches(".*[0-9]{4}-[0-9]{2}.*")) { // not a date
+                    return f.numberNode(Double.parseDouble(s));
+                }
+            } catch (NumberFormatException e) {
+                // text after all
+            }
+        }
+        return f.textNode(t);
+    }
+
+    @Override
+    public List<JsonNode> activity(DataSpec data, Path baseDir, boolean survival) {
+        return SparkActivity.rows(read(data, baseDir), data, name(data), survival);
+    }
+}
