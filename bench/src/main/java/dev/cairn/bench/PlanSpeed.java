@@ -14,7 +14,8 @@ import java.util.Locale;
  * every day from day 1, on 1 and on 2 threads in one run (compare the ratio; the machine's speed drifts).
  * Two traffic levels: 10,000 users per arm per day (every look decides from the approximation) and 2,000 (the
  * first day has fewer than 100 payers per arm and takes exact draws); and 2,000 with looks from day 7.
- * One warm-up run, then the median of three. Run: {@code java -cp bench/target/benchmarks.jar dev.cairn.bench.PlanSpeed}
+ * One warm-up run, then the median of three. Run: {@code java -cp bench/target/benchmarks.jar dev.cairn.bench.PlanSpeed
+ * [USERS_PER_DAY MIN_DAYS]} (no arguments: the three settings).
  */
 public final class PlanSpeed {
     private PlanSpeed() {
@@ -29,7 +30,9 @@ public final class PlanSpeed {
     }
 
     public static void main(String[] args) {
-        for (int[] setting : new int[][] {{10_000, 1}, {2_000, 1}, {2_000, 7}}) {
+        int[][] settings = args.length == 2 ? new int[][] {{Integer.parseInt(args[0]), Integer.parseInt(args[1])}}
+                : new int[][] {{10_000, 1}, {2_000, 7}, {2_000, 1}};
+        for (int[] setting : settings) {
             PlanSpec p = plan(setting[0], setting[1]);
             double[] times = new double[3];
             for (int threads : new int[] {1, 2}) {

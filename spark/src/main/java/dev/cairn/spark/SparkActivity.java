@@ -49,15 +49,7 @@ final class SparkActivity {
     }
 
     private static void refuse(Dataset<Row> df, Column bad, String column, String what, String name) {
-        long n = df.filter(bad).count();
-        if (n > 0) {
-            List<String> shown = new ArrayList<>();
-            for (Row r : df.filter(bad).limit(3).collectAsList()) {
-                shown.add(r.mkString("|"));
-            }
-            throw new InputException(String.format(Locale.ROOT, "%s: %,d row%s, column '%s': %s (e.g. %s)", name, n,
-                    n == 1 ? "" : "s", column, what, String.join("; ", shown)));
-        }
+        SparkStatistics.refuse(df, bad, column, what, name);
     }
 
     static List<JsonNode> rows(Dataset<Row> raw, DataSpec data, String name, boolean survival) {

@@ -126,7 +126,7 @@ public final class SparkStatistics implements StatisticsEngine {
     }
 
     /** Refuses the data when some row matches: how many, and the first few values as they read. */
-    private static void refuse(Dataset<Row> df, Column bad, String column, String what, String name) {
+    static void refuse(Dataset<Row> df, Column bad, String column, String what, String name) {
         long n = df.filter(bad).count();
         if (n > 0) {
             List<String> shown = new ArrayList<>();
