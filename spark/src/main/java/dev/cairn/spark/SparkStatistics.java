@@ -203,11 +203,11 @@ public final class SparkStatistics implements StatisticsEngine {
         if (rows == 0) {
             throw new InputException(name + ": no data rows");
         }
-        List<String> warnings = SpendDataReader.usersWarnings(name, data, spendCol, blanks);
+        List<String> warnings = dev.cairn.models.data.UsersWarnings.usersWarnings(name, data, spendCol, blanks);
         String user = data.mapped("user") ? require(raw, data, "user", name) : null;
         if (user != null) {
             Row r = raw.agg(count(lit(1)), countDistinct(col(user))).first();
-            SpendDataReader.duplicateUsers(name, user, r.getLong(0) - r.getLong(1), strict, warnings);
+            dev.cairn.models.data.UsersWarnings.duplicateUsers(name, user, r.getLong(0) - r.getLong(1), strict, warnings);
         }
         return new UsersStatistics(segments, stats, spendCol != null, name, rows, warnings);
     }

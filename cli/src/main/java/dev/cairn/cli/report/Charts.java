@@ -47,7 +47,7 @@ final class Charts {
     static final Color NEUTRAL = new Color(0x7d8b96);
 
     /** The legend: the plot's series and, after them, the markers drawn on it, so every mark is named. */
-    private static void legendWith(XYPlot plot, org.jfree.chart.LegendItem... extra) {
+    static void legendWith(XYPlot plot, org.jfree.chart.LegendItem... extra) {
         org.jfree.chart.LegendItemCollection items = new org.jfree.chart.LegendItemCollection();
         items.addAll(plot.getLegendItems());
         for (org.jfree.chart.LegendItem e : extra) {
@@ -57,7 +57,7 @@ final class Charts {
     }
 
     /** A legend entry drawn as a line. */
-    private static org.jfree.chart.LegendItem line(String label, java.awt.Paint paint, java.awt.Stroke stroke) {
+    static org.jfree.chart.LegendItem line(String label, java.awt.Paint paint, java.awt.Stroke stroke) {
         return new org.jfree.chart.LegendItem(label, null, null, null, new java.awt.geom.Line2D.Double(-7, 0, 7, 0),
                 stroke, paint);
     }
@@ -74,7 +74,7 @@ final class Charts {
         return g.getSVGElement();
     }
 
-    private static XYPlot style(XYPlot plot) {
+    static XYPlot style(XYPlot plot) {
         plot.setBackgroundPaint(Color.WHITE);
         plot.setDomainGridlinePaint(GRID);
         plot.setRangeGridlinePaint(GRID);
@@ -393,64 +393,5 @@ final class Charts {
         plot.setDataset(1, points);
         plot.setRenderer(1, dots);
         return svg(new JFreeChart(title, JFreeChart.DEFAULT_TITLE_FONT, plot, true), WIDTH, 340);
-    }
-
-    /**
-     * Lines over days, one series per name (dashed where {@code dashed[k]}, in palette colour {@code colours[k]}),
-     * y as a percentage when
-     * {@code percent}; an optional horizontal reference line.
-     */
-    static String lines(String title, String xLabel, String yLabel, boolean percent, List<String> names, int[] x,
-                        List<double[]> ys, boolean[] dashed, int[] colours, Double reference, String referenceLabel) {
-        XYSeriesCollection data = new XYSeriesCollection();
-        XYLineAndShapeRenderer renderer = new XYLineAndShapeRenderer(true, false);
-        List<String> labels = labels(names);
-        for (int k = 0; k < labels.size(); k++) {
-            XYSeries s = new XYSeries(labels.get(k));
-            double[] y = ys.get(k);
-            for (int i = 0; i < x.length; i++) {
-                if (Double.isFinite(y[i])) {
-                    s.add(x[i], y[i]);
-                }
-            }
-            data.addSeries(s);
-            renderer.setSeriesPaint(k, colour(colours[k]));
-            renderer.setSeriesStroke(k, dashed[k] ? new BasicStroke(2f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER, 10,
-                    new float[] {6, 4}, 0) : new BasicStroke(2f));
-        }
-        NumberAxis xAxis = new NumberAxis(xLabel);
-        xAxis.setStandardTickUnits(NumberAxis.createIntegerTickUnits());
-        NumberAxis yAxis = new NumberAxis(yLabel);
-        if (percent) {
-            yAxis.setNumberFormatOverride(new java.text.DecimalFormat("0%"));
-        }
-        XYPlot plot = style(new XYPlot(data, xAxis, yAxis, renderer));
-        if (reference != null) {
-            ValueMarker m = new ValueMarker(reference, NEUTRAL, new BasicStroke(1.2f, BasicStroke.CAP_BUTT,
-                    BasicStroke.JOIN_MITER, 10, new float[] {2, 3}, 0));
-            plot.addRangeMarker(m);
-            legendWith(plot, line(referenceLabel, NEUTRAL, m.getStroke()));
-        }
-        return svg(new JFreeChart(shorten(title, TITLE), JFreeChart.DEFAULT_TITLE_FONT, plot, true), WIDTH, HEIGHT);
-    }
-
-    /** Bars over days (a distribution of days), y as a percentage. */
-    static String dayBars(String title, String xLabel, String yLabel, int[] x, double[] y) {
-        XYSeriesCollection data = new XYSeriesCollection();
-        XYSeries s = new XYSeries(yLabel);
-        for (int i = 0; i < x.length; i++) {
-            s.add(x[i], y[i]);
-        }
-        data.addSeries(s);
-        XYBarRenderer renderer = new XYBarRenderer(0.15);
-        renderer.setBarPainter(new StandardXYBarPainter());
-        renderer.setShadowVisible(false);
-        renderer.setSeriesPaint(0, colour(0));
-        NumberAxis xAxis = new NumberAxis(xLabel);
-        xAxis.setStandardTickUnits(NumberAxis.createIntegerTickUnits());
-        NumberAxis yAxis = new NumberAxis(yLabel);
-        yAxis.setNumberFormatOverride(new java.text.DecimalFormat("0%"));
-        XYPlot plot = style(new XYPlot(new org.jfree.data.xy.XYBarDataset(data, 0.8), xAxis, yAxis, renderer));
-        return svg(new JFreeChart(shorten(title, TITLE), JFreeChart.DEFAULT_TITLE_FONT, plot, false), WIDTH, HEIGHT);
     }
 }

@@ -143,15 +143,15 @@ public final class PlanReport {
         double[] realised = days.stream().mapToDouble(d -> d.fixed().realisedLoss()).toArray();
         sb.append("<section id=\"charts\"><h2>Day by day</h2><p class=\"note\">Solid: the sequential rule, cumulated to "
                 + "the day. Dashed: a test analysed once, on that day, with no earlier look.</p><div class=\"grid\">");
-        sb.append(Charts.lines("Tests decided", "day", "share of tests", true, List.of("stopped by this day",
+        sb.append(DayCharts.lines("Tests decided", "day", "share of tests", true, List.of("stopped by this day",
                 "decided when analysed once on this day"), x, List.of(stopped, decided), new boolean[] {false, true}, new int[] {0, 0}, null, null));
-        sb.append(Charts.lines("Shipped the best arm / a worse arm", "day", "share of tests", true,
+        sb.append(DayCharts.lines("Shipped the best arm / a worse arm", "day", "share of tests", true,
                 List.of("best arm (sequential)", "worse arm (sequential)", "best arm (once)", "worse arm (once)"), x,
                 List.of(bestSeq, worseSeq, bestFixed, worseFixed), new boolean[] {false, false, true, true}, new int[] {0, 1, 0, 1}, null, null));
-        sb.append(Charts.dayBars("Days to the stop", "day", "share of tests stopping", x, stopping));
+        sb.append(DayCharts.dayBars("Days to the stop", "day", "share of tests stopping", x, stopping));
         Double tolerance = plan.settings().tolerance();
         String unit = metric.unitLabel(plan.settings().currency());
-        sb.append(Charts.lines("Loss when analysed once on this day", "day", unit, false,
+        sb.append(DayCharts.lines("Loss when analysed once on this day", "day", unit, false,
                 List.of("expected loss (posterior)", "realised loss (true)"), x, List.of(loss, realised),
                 new boolean[] {true, true}, new int[] {0, 1}, tolerance, tolerance == null ? null : "tolerance"));
         sb.append("</div></section>\n");

@@ -236,9 +236,9 @@ final class ReportSections {
                 + "to its end; period 1 is ").append(HtmlReport.esc(String.valueOf(t.get(0).time()))).append(", period ")
                 .append(t.size()).append(" is ").append(HtmlReport.esc(String.valueOf(t.get(t.size() - 1).time())))
                 .append(". Dashed: the interval's ends.</p><div class=\"grid\">");
-        sb.append(Charts.lines("Lift over " + r.control() + " on " + metric, "period", "lift", true, names, x, ys, dash,
+        sb.append(DayCharts.lines("Lift over " + r.control() + " on " + metric, "period", "lift", true, names, x, ys, dash,
                 colours.stream().mapToInt(Integer::intValue).toArray(), 0.0, "no lift"));
-        sb.append(Charts.lines("P(best) on " + metric, "period", "probability", true, arms, x, best, new boolean[arms.size()],
+        sb.append(DayCharts.lines("P(best) on " + metric, "period", "probability", true, arms, x, best, new boolean[arms.size()],
                 java.util.stream.IntStream.range(0, arms.size()).toArray(), null, null));
         sb.append("</div><table><tr><th>period</th><th>time</th><th>users</th><th>payers</th><th>best-looking</th>"
                 + "<th>P(best)</th><th>expected loss</th><th>rule said</th></tr>");

@@ -236,7 +236,7 @@ public final class SpendDataReader {
                 break;
             }
         }
-        List<String> warnings = usersWarnings(source, data, spend, blanks);
+        List<String> warnings = UsersWarnings.usersWarnings(source.name, data, spend, blanks);
         String user = source.optionalMapped(data, "user");
         if (user != null) {
             long duplicates;
@@ -245,7 +245,7 @@ public final class SpendDataReader {
                 r.next();
                 duplicates = r.getLong(1);
             }
-            duplicateUsers(source, user, duplicates, strict, warnings);
+            UsersWarnings.duplicateUsers(source.name, user, duplicates, strict, warnings);
         }
         return new Cells(segments, arms, spend != null, source.name, rows, warnings, source.shown(query));
     }
@@ -335,61 +335,6 @@ public final class SpendDataReader {
     }
 
     /** The users layout's warnings: a fit without spend, or blank spend cells read as 0. */
-    static List<String> usersWarnings(Source source, DataSpec data, String spend, long blanks) {
-        return usersWarnings(source.name, data, spend, blanks);
-    }
-
-    /**
-     * The users layout's warnings, for any engine: no spend column (a conversion-only fit), or blank spend
-     * cells read as 0.
-     *
-     * @param name   the data's name in messages
-     * @param data   the spec's data part
-     * @param spend  the spend column, or null when there is none
-     * @param blanks blank spend cells read as 0
-     * @return the warnings
-     */
-    public static List<String> usersWarnings(String name, DataSpec data, String spend, long blanks) {
-        List<String> warnings = new ArrayList<>();
-        if (spend == null) {
-            warnings.add(conversionOnly(name + " has no spend column ('" + data.column(SPEND, SPEND) + "')"));
-        } else if (blanks > 0) {
-            warnings.add(name + ", column '" + spend + "': " + blanks + " blank spend cell"
-                    + (blanks == 1 ? "" : "s") + " read as 0 (data.missingSpend is \"zero\")");
-        }
-        return warnings;
-    }
-
-    /** Duplicate user ids: a warning, or refused when the spec is strict. */
-    static void duplicateUsers(Source source, String user, long duplicates, boolean strict, List<String> warnings) {
-        duplicateUsers(source.name, user, duplicates, strict, warnings);
-    }
-
-    /**
-     * Duplicate user ids, for any engine: a warning, or refused when the spec is strict.
-     *
-     * @param name       the data's name in messages
-     * @param user       the user column
-     * @param duplicates rows less distinct ids
-     * @param strict     whether warnings are errors
-     * @param warnings   receives the warning
-     * @throws InputException when strict and there are duplicates
-     */
-    public static void duplicateUsers(String name, String user, long duplicates, boolean strict, List<String> warnings) {
-        if (duplicates > 0) {
-            String message = name + ", column '" + user + "': " + duplicates + " duplicate user id"
-                    + (duplicates == 1 ? "" : "s") + " (each row is counted as one user)";
-            if (strict) {
-                throw new InputException(message + "; refused because the spec is strict");
-            }
-            warnings.add(message);
-        }
-    }
-
-    /** The warning of a fit without spend: what it estimates and what it leaves out. */
-    static String conversionOnly(String why) {
-        return why + ": a conversion-only fit — payer rate alone; ARPU and ARPPU are not estimated";
-    }
 
     // ----------------------------------------------------------------------------------------------------
 

@@ -5,7 +5,7 @@ import static dev.cairn.models.data.SpendDataReader.LOG_SQ_SUM;
 import static dev.cairn.models.data.SpendDataReader.LOG_SUM;
 import static dev.cairn.models.data.SpendDataReader.PAYERS;
 import static dev.cairn.models.data.SpendDataReader.USERS;
-import static dev.cairn.models.data.SpendDataReader.conversionOnly;
+import static dev.cairn.models.data.UsersWarnings.conversionOnly;
 import static dev.cairn.models.data.SpendDataReader.keys;
 import static dev.cairn.models.data.SpendDataReader.selected;
 

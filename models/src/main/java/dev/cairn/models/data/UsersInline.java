@@ -69,7 +69,7 @@ final class UsersInline {
                     : ArmStats.conversions(e.getKey().get(1), e.getValue().size(),
                             e.getValue().stream().filter(r -> Boolean.TRUE.equals(r.converted())).count()));
         }
-        List<String> warnings = SpendDataReader.usersWarnings(source, data, spend, blanks);
+        List<String> warnings = UsersWarnings.usersWarnings(source.name, data, spend, blanks);
         if (user != null) {
             Set<String> distinct = new HashSet<>();
             for (Row r : rows) {
@@ -77,7 +77,7 @@ final class UsersInline {
                     distinct.add(r.user());
                 }
             }
-            SpendDataReader.duplicateUsers(source, user, rows.size() - distinct.size(), strict, warnings);
+            UsersWarnings.duplicateUsers(source.name, user, rows.size() - distinct.size(), strict, warnings);
         }
         return new SpendDataReader.Cells(segments, arms, spend != null, source.name, rows.size(), warnings, null);
     }

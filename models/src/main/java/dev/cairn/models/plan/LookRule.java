@@ -48,7 +48,7 @@ public final class LookRule {
     /** A share of P(largest) below which the rest of a product is not evaluated (it adds under 1e-15 x E[X]). */
     private static final double NEGLIGIBLE = 1e-15;
     /** Beyond this many sds the normal distribution function is 0 or 1 to double precision (1 - Phi(8.3) < 6e-17). */
-    private static final double TAIL = 8.3;
+    static final double TAIL = 8.3;
     /** Gauss-Hermite nodes of the expected-maximum integral. */
     static final int NODES = 12;
     private static final double[] Z;
@@ -158,10 +158,10 @@ public final class LookRule {
      * @param stats per arm the running sums {users, payers, S1, S2}
      * @return the mixtures
      */
-    Mixtures mixtures(double[][] stats) {
+    LognormalMixtures mixtures(double[][] stats) {
         int k = stats.length;
         int c = metric == Metric.PAYER_RATE ? 1 : SPEND_NODES.length;
-        Mixtures x = new Mixtures(k, c);
+        LognormalMixtures x = new LognormalMixtures(k, c);
         for (int a = 0; a < k; a++) {
             double[] st = stats[a];
             double mean = 0, variance = 0;
@@ -186,59 +186,8 @@ public final class LookRule {
         return x;
     }
 
-    /** Per arm, a mixture of lognormals: weights w, log means m, log sds s; and each arm's mean E[X]. */
-    static final class Mixtures {
-        final double[][] w, m, s;
-        final double[] mean;
-
-        Mixtures(int arms, int components) {
-            w = new double[arms][components];
-            m = new double[arms][components];
-            s = new double[arms][components];
-            mean = new double[arms];
-        }
-
-        void set(int arm, int c, double weight, double logMean, double logVariance) {
-            w[arm][c] = weight;
-            m[arm][c] = logMean;
-            s[arm][c] = Math.sqrt(logVariance);
-        }
-
-        void finish() {
-            for (int a = 0; a < w.length; a++) {
-                double e = 0;
-                for (int c = 0; c < w[a].length; c++) {
-                    e += w[a][c] * Math.exp(m[a][c] + 0.5 * s[a][c] * s[a][c]);
-                }
-                mean[a] = e;
-            }
-        }
-
-        /** P(X_j <= e^u) for arm j. */
-        double cdf(int j, double u) {
-            double p = 0;
-            for (int c = 0; c < w[j].length; c++) {
-                double z = (u - m[j][c]) / s[j][c];
-                // Phi is 1 to double precision above 8.3 and below 1e-16 under -8.3: no need to evaluate it there
-                p += z > TAIL ? w[j][c] : z < -TAIL ? 0 : w[j][c] * phi(z);
-            }
-            return p;
-        }
-
-        /** P(X_a > X_b), arms independent. */
-        double above(int a, int b) {
-            double p = 0;
-            for (int c = 0; c < w[a].length; c++) {
-                for (int d = 0; d < w[b].length; d++) {
-                    p += w[a][c] * w[b][d] * phi((m[a][c] - m[b][d]) / Math.hypot(s[a][c], s[b][d]));
-                }
-            }
-            return p;
-        }
-    }
-
     /** The rule on mixture posteriors. */
-    void decideApproximately(Mixtures x, Outcome out) {
+    void decideApproximately(LognormalMixtures x, Outcome out) {
         int k = x.mean.length;
         double max = expectedMax(x);
         out.loss = new double[k];
@@ -270,7 +219,7 @@ public final class LookRule {
     }
 
     /** E[max_j X_j] by Gauss-Hermite quadrature over each lognormal component. */
-    static double expectedMax(Mixtures x) {
+    static double expectedMax(LognormalMixtures x) {
         int k = x.mean.length;
         double max = 0;
         for (int a = 0; a < k; a++) {

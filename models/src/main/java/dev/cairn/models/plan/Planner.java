@@ -54,10 +54,10 @@ public final class Planner {
         progress.start(1, plan.experiments());
         AtomicLong done = new AtomicLong();
         ForkJoinPool pool = new ForkJoinPool(Math.max(1, threads));
-        Tally[] tallies;
+        PlanTally[] tallies;
         try {
             tallies = pool.submit(() -> IntStream.range(0, blocks).parallel().mapToObj(b -> {
-                Tally t = new Tally(plan.arms().size(), lookDays.length);
+                PlanTally t = new PlanTally(plan.arms().size(), lookDays.length);
                 int from = b * BLOCK, to = Math.min(plan.experiments(), from + BLOCK);
                 Experiment experiment = new Experiment(plan, lookDays);
                 for (int e = from; e < to; e++) {
@@ -65,7 +65,7 @@ public final class Planner {
                     progress.report(0, done.incrementAndGet(), plan.experiments(), false);
                 }
                 return t;
-            }).toArray(Tally[]::new)).get();
+            }).toArray(PlanTally[]::new)).get();
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
             throw new java.util.concurrent.CancellationException("interrupted");
@@ -77,8 +77,8 @@ public final class Planner {
         } finally {
             pool.shutdownNow();
         }
-        Tally all = new Tally(plan.arms().size(), lookDays.length);
-        for (Tally t : tallies) {
+        PlanTally all = new PlanTally(plan.arms().size(), lookDays.length);
+        for (PlanTally t : tallies) {
             all.add(t);
         }
         double seconds = (System.nanoTime() - started) / 1e9;
@@ -108,7 +108,7 @@ public final class Planner {
             this.last = new DailyStats[k];
         }
 
-        void run(UniformRandomProvider rng, Tally t) {
+        void run(UniformRandomProvider rng, PlanTally t) {
             double[] base = plan.baseline().draw(rng);
             DailyStats.Source[] sources = new DailyStats.Source[k];
             for (int a = 0; a < k; a++) {
@@ -157,140 +157,7 @@ public final class Planner {
         return metric == Metric.ARPPU ? arm.arppu() : arm.arpu();
     }
 
-    /** Counts and sums over tests; one per block, added in block order. */
-    static final class Tally {
-        final int arms, looks;
-        long tests;
-        // fixed horizon, per look
-        final long[] decided, ship, shipWorse, shipNotBetter, shipBest, pickBest, drew;
-        final double[] loss, regret;
-        // sequential, per stop look; index looks = undecided
-        final long[] stopAt, stopShip, stopKeep, stopShipWorse, stopShipNotBetter, stopShipBetter, stopShipBest, stopPickBest;
-        final double[] stopLoss, stopRegret;
-        final long[] acted;
-        // assumptions
-        final double[] valueSum, liftSum, bestShare;
-        final double[] baseSum = new double[3];
-
-        Tally(int arms, int looks) {
-            this.arms = arms;
-            this.looks = looks;
-            decided = new long[looks];
-            ship = new long[looks];
-            shipWorse = new long[looks];
-            shipNotBetter = new long[looks];
-            shipBest = new long[looks];
-            pickBest = new long[looks];
-            drew = new long[looks];
-            loss = new double[looks];
-            regret = new double[looks];
-            stopAt = new long[looks + 1];
-            stopShip = new long[looks + 1];
-            stopKeep = new long[looks + 1];
-            stopShipWorse = new long[looks + 1];
-            stopShipNotBetter = new long[looks + 1];
-            stopShipBetter = new long[looks + 1];
-            stopShipBest = new long[looks + 1];
-            stopPickBest = new long[looks + 1];
-            stopLoss = new double[looks + 1];
-            stopRegret = new double[looks + 1];
-            acted = new long[arms];
-            valueSum = new double[arms];
-            liftSum = new double[arms];
-            bestShare = new double[arms];
-        }
-
-        void truth(double[] truth, int control, double[] base) {
-            tests++;
-            double max = max(truth);
-            int ties = 0;
-            for (double v : truth) {
-                ties += v == max ? 1 : 0;
-            }
-            for (int a = 0; a < arms; a++) {
-                valueSum[a] += truth[a];
-                liftSum[a] += truth[a] / truth[control] - 1;
-                bestShare[a] += truth[a] == max ? 1.0 / ties : 0;
-            }
-            for (int j = 0; j < 3; j++) {
-                baseSum[j] += base[j];
-            }
-        }
-
-        /** The arm acted on after a look: the shipped arm, else the control. */
-        private static int acted(LookRule.Outcome o, int control) {
-            return o.code == LookRule.SHIP ? o.arm : control;
-        }
-
-        void fixed(int look, LookRule.Outcome o, double[] truth, int control) {
-            int arm = acted(o, control);
-            boolean shipped = o.code == LookRule.SHIP;
-            decided[look] += o.code != LookRule.KEEP_COLLECTING ? 1 : 0;
-            ship[look] += shipped ? 1 : 0;
-            shipWorse[look] += shipped && truth[arm] < truth[control] ? 1 : 0;
-            shipNotBetter[look] += shipped && truth[arm] <= truth[control] ? 1 : 0;
-            shipBest[look] += shipped && truth[arm] == max(truth) ? 1 : 0;
-            pickBest[look] += truth[arm] == max(truth) ? 1 : 0;
-            drew[look] += o.drew ? 1 : 0;
-            loss[look] += o.loss[arm];
-            regret[look] += max(truth) - truth[arm];
-        }
-
-        void stop(int look, LookRule.Outcome o, double[] truth, int control) {
-            int arm = acted(o, control);
-            boolean shipped = o.code == LookRule.SHIP;
-            stopAt[look]++;
-            stopShip[look] += shipped ? 1 : 0;
-            stopKeep[look] += o.code == LookRule.KEEP_CONTROL ? 1 : 0;
-            stopShipWorse[look] += shipped && truth[arm] < truth[control] ? 1 : 0;
-            stopShipNotBetter[look] += shipped && truth[arm] <= truth[control] ? 1 : 0;
-            stopShipBetter[look] += shipped && truth[arm] > truth[control] ? 1 : 0;
-            stopShipBest[look] += shipped && truth[arm] == max(truth) ? 1 : 0;
-            stopPickBest[look] += truth[arm] == max(truth) ? 1 : 0;
-            stopLoss[look] += o.loss[arm];
-            stopRegret[look] += max(truth) - truth[arm];
-            acted[arm]++;
-        }
-
-        void undecided(LookRule.Outcome last, double[] truth, int control) {
-            stopAt[looks]++;
-            stopPickBest[looks] += truth[control] == max(truth) ? 1 : 0;
-            stopLoss[looks] += last.loss[control];
-            stopRegret[looks] += max(truth) - truth[control];
-            acted[control]++;
-        }
-
-        void add(Tally t) {
-            tests += t.tests;
-            long[][] mine = {decided, ship, shipWorse, shipNotBetter, shipBest, pickBest, drew, stopAt, stopShip, stopKeep,
-                stopShipWorse, stopShipNotBetter, stopShipBetter, stopShipBest, stopPickBest, acted};
-            long[][] theirs = {t.decided, t.ship, t.shipWorse, t.shipNotBetter, t.shipBest, t.pickBest, t.drew, t.stopAt,
-                t.stopShip, t.stopKeep, t.stopShipWorse, t.stopShipNotBetter, t.stopShipBetter, t.stopShipBest,
-                t.stopPickBest, t.acted};
-            for (int i = 0; i < mine.length; i++) {
-                for (int j = 0; j < mine[i].length; j++) {
-                    mine[i][j] += theirs[i][j];
-                }
-            }
-            double[][] mineD = {loss, regret, stopLoss, stopRegret, valueSum, liftSum, bestShare, baseSum};
-            double[][] theirsD = {t.loss, t.regret, t.stopLoss, t.stopRegret, t.valueSum, t.liftSum, t.bestShare, t.baseSum};
-            for (int i = 0; i < mineD.length; i++) {
-                for (int j = 0; j < mineD[i].length; j++) {
-                    mineD[i][j] += theirsD[i][j];
-                }
-            }
-        }
-
-        private static double max(double[] x) {
-            double m = x[0];
-            for (double v : x) {
-                m = Math.max(m, v);
-            }
-            return m;
-        }
-    }
-
-    private static PlanResult summarise(PlanSpec plan, int[] lookDays, Tally t, PlanResult.Run run) {
+    private static PlanResult summarise(PlanSpec plan, int[] lookDays, PlanTally t, PlanResult.Run run) {
         double n = t.tests;
         List<String> arms = plan.arms();
         String control = arms.get(plan.control());
@@ -403,7 +270,7 @@ public final class Planner {
         return stopDays.length - 1;
     }
 
-    private static List<String> warnings(PlanSpec plan, Tally t, int[] lookDays) {
+    private static List<String> warnings(PlanSpec plan, PlanTally t, int[] lookDays) {
         List<String> w = new ArrayList<>();
         long drew = 0;
         for (long d : t.drew) {

@@ -55,7 +55,7 @@ class LookRuleTest {
                         LookRule.Outcome approx = new LookRule.Outcome();
                         fast.decide(stats, rng, approx);
                         assertTrue(!approx.drew, "the approximation applies from " + LookRule.APPROXIMATE_FROM + " payers");
-                        LookRule.Mixtures x = fast.mixtures(stats);
+                        LognormalMixtures x = fast.mixtures(stats);
                         double control = x.mean[0];
                         for (int a = 0; a < arms; a++) {
                             // bound: a fifth of the default tolerance (1% of the control's mean), plus 2% of the loss
