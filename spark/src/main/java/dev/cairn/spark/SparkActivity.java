@@ -71,15 +71,22 @@ final class SparkActivity {
             refuse(raw, t.isNull().or(t.equalTo("")), c, "no date", name);
             refuse(raw, date(c).isNull(), c, "not a date (YYYY-MM-DD)", name);
         }
+        boolean lines = java.util.Arrays.asList(raw.columns()).contains(SparkStatistics.LINE);
         Dataset<Row> df = raw.select(trim(col(userCol).cast("string")).as("u"),
                 (armCol == null ? lit("all") : trim(col(armCol).cast("string"))).as("a"),
-                date(installCol).as("i"), date(activeCol).as("d"));
+                date(installCol).as("i"), date(activeCol).as("d"), lines ? col(SparkStatistics.LINE) : lit(0L).as("no_line"));
         refuse(df, col("d").lt(col("i")), activeCol, "active before the install", name);
         Dataset<Row> users = df.groupBy("u").agg(countDistinct(col("a")).as("arms"), countDistinct(col("i")).as("installs"));
-        refuse(users, col("arms").gt(1), armCol == null ? "arm" : armCol, "a user appears in two arms (every row of a "
-                + "user must agree)", name);
-        refuse(users, col("installs").gt(1), installCol, "a user appears with two install dates (every row of a user "
-                + "must agree)", name);
+        String[][] userRules = {{"arms", armCol == null ? "arm" : armCol, "in two arms"}, {"installs", installCol,
+            "with two install dates"}};
+        for (String[] rule : userRules) {
+            List<Row> bad = users.filter(col(rule[0]).gt(1)).select("u").orderBy("u").limit(1).collectAsList();
+            if (!bad.isEmpty()) {
+                String user = bad.get(0).getString(0);
+                refuse(df, col("u").equalTo(user), rule[1], "user " + user + " appears " + rule[2]
+                        + " (every row of a user must agree)", name);
+            }
+        }
         LocalDate asOf = data.asOf() != null ? LocalDate.parse(data.asOf())
                 : df.agg(max(col("d"))).first().getDate(0).toLocalDate();
         Column cut = lit(java.sql.Date.valueOf(asOf));

@@ -91,12 +91,49 @@ public final class SparkStatistics implements StatisticsEngine {
                 return s.read().parquet(location);
             }
             if (lower.endsWith(".csv")) {
+                if (!path.contains("://") && java.nio.file.Files.isRegularFile(Path.of(location))) {
+                    return numberedCsv(s, location, path);
+                }
                 return s.read().option("header", true).option("inferSchema", false).option("mode", "FAILFAST").csv(location);
             }
         } catch (RuntimeException e) {
             throw new InputException(path + ": cannot be read by Spark (" + firstLine(e) + ")");
         }
         throw new InputException("data.path: " + path + ": expected a .csv or .parquet file (or data.table)");
+    }
+
+    /** The column that carries a CSV row's line in its file (the header is line 1). */
+    static final String LINE = "cairn_line";
+
+    /**
+     * One CSV file with each row's line number, so that refusals name lines as the embedded engine's do: the
+     * file read as text, numbered in file order, and each line after the header parsed as CSV (text columns).
+     */
+    private static Dataset<Row> numberedCsv(SparkSession s, String location, String path) {
+        Dataset<Row> text = s.read().text(location);
+        Row first = text.first();
+        List<String> header;
+        try (org.apache.commons.csv.CSVParser p = org.apache.commons.csv.CSVParser.parse(first.getString(0),
+                org.apache.commons.csv.CSVFormat.RFC4180.builder().setIgnoreSurroundingSpaces(true).get())) {
+            header = p.getRecords().get(0).toList();
+        } catch (java.io.IOException | RuntimeException e) {
+            throw new InputException(path + ": line 1: the header is not valid CSV (" + firstLine(e) + ")");
+        }
+        org.apache.spark.sql.types.StructType columns = new org.apache.spark.sql.types.StructType();
+        for (String h : header) {
+            columns = columns.add(h, DataTypes.StringType, true);
+        }
+        org.apache.spark.api.java.JavaRDD<Row> numbered = text.javaRDD().zipWithIndex().filter(t -> t._2() > 0)
+                .map(t -> org.apache.spark.sql.RowFactory.create(t._1().getString(0), t._2() + 1));
+        Dataset<Row> lines = s.createDataFrame(numbered, new org.apache.spark.sql.types.StructType()
+                .add("value", DataTypes.StringType).add(LINE, DataTypes.LongType));
+        List<Column> out = new ArrayList<>();
+        for (String h : header) {
+            out.add(col("r." + "`" + h.replace("`", "``") + "`").as(h));
+        }
+        out.add(col(LINE));
+        return lines.select(org.apache.spark.sql.functions.from_csv(col("value"), lit(columns.toDDL()), Map.<String, String>of()).as("r"), col(LINE))
+                .select(out.toArray(new Column[0]));
     }
 
     private static String firstLine(Throwable e) {
@@ -125,9 +162,20 @@ public final class SparkStatistics implements StatisticsEngine {
         return null;
     }
 
-    /** Refuses the data when some row matches: how many, and the first few values as they read. */
+    /**
+     * Refuses the data when some row matches: with the first lines, as the embedded engine names them, when the
+     * rows carry their line (one CSV file); else how many, and the first few values as they read.
+     */
     static void refuse(Dataset<Row> df, Column bad, String column, String what, String name) {
         long n = df.filter(bad).count();
+        if (n > 0 && Arrays.asList(df.columns()).contains(LINE)) {
+            List<String> lines = new ArrayList<>();
+            for (Row r : df.filter(bad).select(col(LINE)).orderBy(col(LINE)).limit(3).collectAsList()) {
+                lines.add(String.valueOf(r.getLong(0)));
+            }
+            throw new InputException(name + ": line" + (lines.size() == 1 ? " " : "s ") + String.join(", ", lines)
+                    + (n > lines.size() ? " and " + (n - lines.size()) + " more" : "") + ", column '" + column + "': " + what);
+        }
         if (n > 0) {
             List<String> shown = new ArrayList<>();
             for (Row r : df.filter(bad).limit(3).collectAsList()) {
@@ -161,35 +209,48 @@ public final class SparkStatistics implements StatisticsEngine {
         keys.add(col("arm"));
         String valueCol = spendCol != null ? spendCol : convertedCol;
         selected.add(spendCol != null ? col(valueCol).try_cast("double").as("v") : col(valueCol).cast("string").as("v"));
-        Dataset<Row> df = raw.select(selected.toArray(new Column[0]));
-        refuse(df, col("arm").isNull().or(col("arm").equalTo("")), armCol, "arm is empty", name);
-        if (segCol != null) {
-            refuse(df, col("segment").isNull().or(col("segment").equalTo("")), segCol, "segment is empty", name);
+        selected.add(col(valueCol).cast("string").as("raw"));
+        if (Arrays.asList(raw.columns()).contains(LINE)) {
+            selected.add(col(LINE));
         }
-        long blanks = 0;
+        Dataset<Row> df = raw.select(selected.toArray(new Column[0]));
         boolean blankIsZero = spendCol != null && data.blankSpendIsZero();
-        Column blank = col(valueCol).isNull().or(trim(col(valueCol).cast("string")).equalTo(""));
+        Column blank = col("raw").isNull().or(trim(col("raw")).equalTo(""));
+        Column v = col("v");
+        // every rule in one pass over the data; only a broken rule costs a second look (for its lines)
+        List<Object[]> rules = new ArrayList<>();
+        rules.add(new Object[] {col("arm").isNull().or(col("arm").equalTo("")), armCol, "arm is empty"});
+        if (segCol != null) {
+            rules.add(new Object[] {col("segment").isNull().or(col("segment").equalTo("")), segCol, "segment is empty"});
+        }
         if (!blankIsZero) {
-            refuse(raw, blank, valueCol, spendCol == null ? "value is empty"
-                    : "spend is empty (if a blank means the user did not pay, set data.missingSpend to \"zero\")", name);
-        } else {
-            blanks = raw.filter(blank).count();
+            rules.add(new Object[] {blank, valueCol, spendCol == null ? "value is empty"
+                    : "spend is empty (if a blank means the user did not pay, set data.missingSpend to \"zero\")"});
         }
         if (spendCol != null) {
-            refuse(raw, col(valueCol).isNotNull().and(col(valueCol).try_cast("double").isNull()), valueCol,
-                    "spend must be a number", name);
-            refuse(df, col("v").isNaN().or(col("v").equalTo(Double.POSITIVE_INFINITY)).or(col("v").equalTo(Double.NEGATIVE_INFINITY)),
-                    valueCol, "spend must be a finite number (NaN or infinity found)", name);
-            refuse(df, col("v").lt(0), valueCol, "spend must be >= 0 (0 for users who did not pay)", name);
             double small = SpendDataReader.SMALLEST_SPEND, large = SpendDataReader.LARGEST_SPEND;
-            refuse(df, col("v").gt(0).and(col("v").lt(small).or(col("v").gt(large))), valueCol, "a positive spend must "
-                    + "lie between " + small + " and " + large + " (the model works with log spend and its square; "
-                    + "rescale the currency unit)", name);
+            rules.add(new Object[] {blank.unary_$bang().and(v.isNull()), valueCol, "spend must be a number"});
+            rules.add(new Object[] {v.isNaN().or(v.equalTo(Double.POSITIVE_INFINITY)).or(v.equalTo(Double.NEGATIVE_INFINITY)),
+                valueCol, "spend must be a finite number (NaN or infinity found)"});
+            rules.add(new Object[] {v.lt(0), valueCol, "spend must be >= 0 (0 for users who did not pay)"});
+            rules.add(new Object[] {v.gt(0).and(v.lt(small).or(v.gt(large))), valueCol, "a positive spend must lie between "
+                + small + " and " + large + " (the model works with log spend and its square; rescale the currency unit)"});
         } else {
-            Column v = col("v");
-            refuse(df, v.isNotNull().and(v.isin("0", "1", "true", "false", "TRUE", "FALSE", "True", "False").unary_$bang()),
-                    valueCol, "expected true/false or 1/0", name);
+            rules.add(new Object[] {v.isNotNull().and(v.isin("0", "1", "true", "false", "TRUE", "FALSE", "True", "False")
+                    .unary_$bang()), valueCol, "expected true/false or 1/0"});
         }
+        List<Column> counts = new ArrayList<>();
+        for (Object[] rule : rules) {
+            counts.add(count(when((Column) rule[0], 1)));
+        }
+        counts.add(count(when(blank, 1)));
+        Row broken = df.agg(counts.get(0), counts.subList(1, counts.size()).toArray(new Column[0])).first();
+        for (int i = 0; i < rules.size(); i++) {
+            if (broken.getLong(i) > 0) {
+                refuse(df, (Column) rules.get(i)[0], (String) rules.get(i)[1], (String) rules.get(i)[2], name);
+            }
+        }
+        long blanks = blankIsZero ? broken.getLong(rules.size()) : 0;
         Map<List<String>, ArmStats> cells = spendCol != null ? spendCells(df, keys, segCol != null)
                 : conversionCells(df, keys, segCol != null);
         List<String> segments = new ArrayList<>();
@@ -306,6 +367,9 @@ public final class SparkStatistics implements StatisticsEngine {
     @Override
     public List<JsonNode> rows(DataSpec data, Path baseDir) {
         Dataset<Row> df = read(data, baseDir);
+        if (Arrays.asList(df.columns()).contains(LINE)) {
+            df = df.orderBy(col(LINE)).drop(LINE); // in file order: row i is line i + 2
+        }
         long n = df.count();
         if (n > dev.cairn.models.Limits.INLINE_ROWS) {
             throw new InputException(String.format(Locale.ROOT, "%s: %,d rows; a %s table is read whole and may have at "

@@ -13,8 +13,9 @@ import java.util.Map;
 import org.apache.spark.sql.SparkSession;
 
 /**
- * The statistics step on 10^6 and 10^7 users (4 arms, Parquet written by the embedded engine): the embedded
- * engine, and Spark in local mode on 1 and on 2 cores, each the median of 5 timed runs after 2 warm-up runs,
+ * The statistics step on 10^6, 3 x 10^6 and 10^7 users (4 arms, Parquet written by the embedded engine): the embedded
+ * engine, and Spark in local mode on 1 and on 2 cores (files split into parts of at most 8 MB, so that both
+ * cores have tasks), each the median of 5 timed runs after 2 warm-up runs,
  * all in one process (compare ratios). Not part of the test suite; run with
  * {@code mvn -B -q -pl spark test-compile dependency:build-classpath -Dmdep.outputFile=/tmp/cp.txt} then
  * {@code java --add-opens=java.base/sun.nio.ch=ALL-UNNAMED ... -cp spark/target/classes:spark/target/test-classes:$(cat /tmp/cp.txt)
@@ -51,7 +52,7 @@ public final class SparkScaling {
         Path dir = Path.of(args.length > 0 ? args[0] : "/tmp/cairn-scaling");
         Files.createDirectories(dir);
         Map<String, String> columns = Map.of("arm", "store_variant", "spend", "spend_d7");
-        for (long users : new long[] {1_000_000, 10_000_000}) {
+        for (long users : new long[] {1_000_000, 3_000_000, 10_000_000}) {
             Path file = dir.resolve("users-" + users + ".parquet");
             if (!Files.exists(file)) {
                 write(file, users);
@@ -63,6 +64,7 @@ public final class SparkScaling {
             for (int cores : new int[] {1, 2}) {
                 SparkSession session = SparkSession.builder().master("local[" + cores + "]").appName("scaling")
                         .config("spark.ui.enabled", false).config("spark.sql.shuffle.partitions", 2 * cores)
+                        .config("spark.sql.files.maxPartitionBytes", "8m")
                         .config("spark.driver.host", "127.0.0.1").getOrCreate();
                 s[cores - 1] = median(() -> SpendDataReader.read(spark, dir, false));
                 session.stop();

@@ -108,9 +108,11 @@ class SparkStatisticsTest {
                     "spec.json"), dir, FitOptions.DEFAULT);
             ObjectNode a = (ObjectNode) m.readTree(ResultWriter.json(embedded.result()));
             ObjectNode b = (ObjectNode) m.readTree(ResultWriter.json(onSpark.result()));
+            assertEquals(a.get("data").get("users"), b.get("data").get("users"));
+            assertEquals(a.get("data").get("rows"), b.get("data").get("rows"));
             for (ObjectNode o : List.of(a, b)) {
-                o.remove("run");
-                o.remove("data");
+                o.remove("run"); // seconds
+                o.remove("data"); // the file's name (CSV here, Parquet there) and the embedded engine's SQL text
             }
             assertEquals(m.writeValueAsString(a), m.writeValueAsString(b), n + " partitions");
             String text = ResultWriter.json(onSpark.result()).replaceAll("\"seconds\" : [0-9.E-]+", "")
@@ -177,12 +179,34 @@ class SparkStatisticsTest {
     }
 
     @Test
-    void badDataIsRefusedWithOneLine() throws Exception {
-        Files.writeString(dir.resolve("bad.csv"), "variant,spend\nA,3.5\nB,-2\n");
-        InputException e = assertThrows(InputException.class, () -> SpendDataReader.read(
-                new DataSpec("bad.csv", "users", Map.of("arm", "variant"), null, null, null, null, "spark", null), dir, false));
-        assertEquals("bad.csv: 1 row, column 'spend': spend must be >= 0 (0 for users who did not pay) (e.g. B|-2.0)",
-                e.getMessage());
+    void badRowsAreRefusedWithTheirLinesAsTheEmbeddedEngineNamesThem() throws Exception {
+        Files.writeString(dir.resolve("bad.csv"), "variant,spend\nA,3.5\nB,-2\nA,1\nC,-1\n");
+        for (String engine : new String[] {null, "spark"}) {
+            InputException e = assertThrows(InputException.class, () -> SpendDataReader.read(
+                    new DataSpec("bad.csv", "users", Map.of("arm", "variant"), null, null, null, null, engine, null), dir, false));
+            assertEquals("bad.csv: lines 3, 5, column 'spend': spend must be >= 0 (0 for users who did not pay)",
+                    e.getMessage(), "engine " + engine);
+        }
+        String[][] cases = {
+            {"user,arm,installDate,activeDate\np1,A,2026-03-02,2026-03-02\np1,A,2026-03-02,2026-03-01\n",
+                "bad-activity.csv: line 3, column 'activeDate': active before the install"},
+            {"user,arm,installDate,activeDate\np1,A,2026-03-02,2026-03-02\np1,A,2026-3-2,2026-03-03\n",
+                "bad-activity.csv: line 3, column 'installDate': not a date (YYYY-MM-DD)"},
+            {"user,arm,installDate,activeDate\np1,A,2026-03-02,2026-03-02\np2,B,2026-03-02,2026-03-02\np1,B,2026-03-02,2026-03-03\n",
+                "bad-activity.csv: lines 2, 4, column 'arm': user p1 appears in two arms (every row of a user must agree)"}};
+        for (String[] c : cases) {
+            Files.writeString(dir.resolve("bad-activity.csv"), c[0]);
+            for (String engine : new String[] {null, "spark"}) {
+                InputException e = assertThrows(InputException.class, () -> CohortDays.read(
+                        new DataSpec("bad-activity.csv", "activity", null, null, null, null, null, engine, null), dir, false));
+                assertEquals(c[1], e.getMessage(), "engine " + engine);
+            }
+        }
+        InputException parquet = assertThrows(InputException.class, () -> SpendDataReader.read(
+                new DataSpec("users-1.parquet", "users", Map.of("arm", "no_such_column"), null, null, null, null, "spark",
+                        null), dir, false));
+        assertTrue(parquet.getMessage().startsWith("users-1.parquet: missing column 'no_such_column' (data.columns.arm)"),
+                parquet.getMessage());
         assertTrue(SpecReader.parse("""
             {"model": "spend", "data": {"table": "db.users", "layout": "users", "engine": "spark"}}
             """, "spec.json").data().table().equals("db.users"));
