@@ -180,6 +180,25 @@ class SparkStatisticsTest {
 
     @Test
     void badRowsAreRefusedWithTheirLinesAsTheEmbeddedEngineNamesThem() throws Exception {
+        String[][] tables = {
+            {"summary", "arm,users,payers,log_spend_sum,log_spend_sq_sum\nA,100,5,5.0,9.0\nB,100,120,6.0,10.0\n"},
+            {"cohort-days", "cohort,arm,day,installs,active\n2026-03-02,A,0,100,100\n2026-03-02,A,1,100,140\n"}};
+        for (String[] t : tables) {
+            Files.writeString(dir.resolve("bad-table.csv"), t[1]);
+            String[] messages = new String[2];
+            for (int k = 0; k < 2; k++) {
+                DataSpec d = new DataSpec("bad-table.csv", t[0], null, null, null, null, null, k == 0 ? null : "spark", null);
+                messages[k] = assertThrows(InputException.class, () -> {
+                    if (t[0].equals("summary")) {
+                        SpendDataReader.read(d, dir, false);
+                    } else {
+                        CohortDays.read(d, dir, false);
+                    }
+                }).getMessage();
+            }
+            assertEquals(messages[0], messages[1], t[0] + " table: the same line named by both engines");
+            assertTrue(messages[0].startsWith("bad-table.csv: line 3, "), messages[0]);
+        }
         Files.writeString(dir.resolve("bad.csv"), "variant,spend\nA,3.5\nB,-2\nA,1\nC,-1\n");
         for (String engine : new String[] {null, "spark"}) {
             InputException e = assertThrows(InputException.class, () -> SpendDataReader.read(

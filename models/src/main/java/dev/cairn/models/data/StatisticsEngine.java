@@ -98,9 +98,30 @@ public interface StatisticsEngine {
         try {
             return read.get();
         } catch (InputException e) {
+            String m = e.getMessage();
+            boolean lines = data.path() != null && data.path().toLowerCase(java.util.Locale.ROOT).endsWith(".csv")
+                    && !data.path().contains("://");
+            if (lines) { // one CSV file, handed over in file order: row i is line i + 2, named as the embedded engine names it
+                java.util.regex.Matcher rule = java.util.regex.Pattern.compile(
+                        "^spec: ((?:/data/rows/\\d+(?:, )?)+)( and \\d+ more)?, '([^']*)': (.*)$", java.util.regex.Pattern.DOTALL).matcher(m);
+                java.util.regex.Matcher cell = java.util.regex.Pattern.compile(
+                        "^spec: /data/rows/(\\d+)/([^:]+): (.*)$", java.util.regex.Pattern.DOTALL).matcher(m);
+                if (rule.matches()) {
+                    List<String> at = new java.util.ArrayList<>();
+                    java.util.regex.Matcher n = java.util.regex.Pattern.compile("/data/rows/(\\d+)").matcher(rule.group(1));
+                    while (n.find()) {
+                        at.add(String.valueOf(Long.parseLong(n.group(1)) + 2));
+                    }
+                    throw new InputException(data.path() + ": line" + (at.size() == 1 ? " " : "s ") + String.join(", ", at)
+                            + (rule.group(2) == null ? "" : rule.group(2)) + ", column '" + rule.group(3) + "': " + rule.group(4));
+                }
+                if (cell.matches()) {
+                    throw new InputException(data.path() + ": line " + (Long.parseLong(cell.group(1)) + 2) + ", column '"
+                            + cell.group(2) + "': " + cell.group(3));
+                }
+            }
             String where = (data.table() != null ? "table " + data.table() : data.path()) + " (read by " + data.engine() + ")";
-            throw new InputException(e.getMessage().replace("spec: /data/rows/", where + ": row ")
-                    .replace("inline rows", where));
+            throw new InputException(m.replace("spec: /data/rows/", where + ": row ").replace("inline rows", where));
         }
     }
 
