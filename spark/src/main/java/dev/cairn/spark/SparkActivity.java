@@ -49,7 +49,7 @@ final class SparkActivity {
     }
 
     private static void refuse(Dataset<Row> df, Column bad, String column, String what, String name) {
-        SparkStatistics.refuse(df, bad, column, what, name);
+        SparkSources.refuse(df, bad, column, what, name);
     }
 
     static List<JsonNode> rows(Dataset<Row> raw, DataSpec data, String name, boolean survival) {
@@ -71,10 +71,10 @@ final class SparkActivity {
             refuse(raw, t.isNull().or(t.equalTo("")), c, "no date", name);
             refuse(raw, date(c).isNull(), c, "not a date (YYYY-MM-DD)", name);
         }
-        boolean lines = java.util.Arrays.asList(raw.columns()).contains(SparkStatistics.LINE);
+        boolean lines = java.util.Arrays.asList(raw.columns()).contains(SparkSources.LINE);
         Dataset<Row> df = raw.select(trim(col(userCol).cast("string")).as("u"),
                 (armCol == null ? lit("all") : trim(col(armCol).cast("string"))).as("a"),
-                date(installCol).as("i"), date(activeCol).as("d"), lines ? col(SparkStatistics.LINE) : lit(0L).as("no_line"));
+                date(installCol).as("i"), date(activeCol).as("d"), lines ? col(SparkSources.LINE) : lit(0L).as("no_line"));
         refuse(df, col("d").lt(col("i")), activeCol, "active before the install", name);
         Dataset<Row> users = df.groupBy("u").agg(countDistinct(col("a")).as("arms"), countDistinct(col("i")).as("installs"));
         String[][] userRules = {{"arms", armCol == null ? "arm" : armCol, "in two arms"}, {"installs", installCol,

@@ -32,10 +32,7 @@ import java.util.Map;
 import org.apache.spark.sql.Column;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
-import org.apache.spark.sql.SparkSession;
-import org.apache.spark.sql.api.java.UDF1;
 import org.apache.spark.sql.expressions.Window;
-import org.apache.spark.sql.types.DataTypes;
 
 /**
  * The data's statistics computed by Spark (DataFrame API), from a CSV or Parquet file or a catalog table.
@@ -58,142 +55,14 @@ public final class SparkStatistics implements StatisticsEngine {
         return "spark";
     }
 
-    /** {@return the running session (the job's, or a test's)} */
-    static SparkSession session() {
-        SparkSession s = SparkSession.getActiveSession().getOrElse(() -> SparkSession.getDefaultSession().getOrElse(() -> null));
-        if (s == null) {
-            throw new InputException("/data/engine: 'spark' needs a running Spark session (run cairn's Spark job with "
-                    + "spark-submit)");
-        }
-        s.udf().register(LOG_UNITS, (UDF1<Double, Long>) y -> y == null || !(y > 0) ? null : ExactSums.logUnits(y),
-                DataTypes.LongType);
-        s.udf().register(SPEND_UNITS, (UDF1<Double, Long>) y -> y == null || !(y > 0) ? null : ExactSums.spendUnits(y),
-                DataTypes.LongType);
-        return s;
-    }
-
-    /** The data's name in messages: the path as the spec writes it, or the table. */
-    static String name(DataSpec data) {
-        return data.table() != null ? "table " + data.table() : data.path();
-    }
-
-    /** Reads the data: a catalog table, or a CSV (header, every column as text) or Parquet file by extension. */
-    static Dataset<Row> read(DataSpec data, Path baseDir) {
-        SparkSession s = session();
-        if (data.table() != null) {
-            return s.table(data.table());
-        }
-        String path = data.path();
-        String location = path.contains("://") || Path.of(path).isAbsolute() ? path : baseDir.resolve(path).toString();
-        String lower = path.toLowerCase(Locale.ROOT);
-        try {
-            if (lower.endsWith(".parquet")) {
-                return s.read().parquet(location);
-            }
-            if (lower.endsWith(".csv")) {
-                if (!path.contains("://") && java.nio.file.Files.isRegularFile(Path.of(location))) {
-                    return numberedCsv(s, location, path);
-                }
-                return s.read().option("header", true).option("inferSchema", false).option("mode", "FAILFAST").csv(location);
-            }
-        } catch (RuntimeException e) {
-            throw new InputException(path + ": cannot be read by Spark (" + firstLine(e) + ")");
-        }
-        throw new InputException("data.path: " + path + ": expected a .csv or .parquet file (or data.table)");
-    }
-
-    /** The column that carries a CSV row's line in its file (the header is line 1). */
-    static final String LINE = "cairn_line";
-
-    /**
-     * One CSV file with each row's line number, so that refusals name lines as the embedded engine's do: the
-     * file read as text, numbered in file order, and each line after the header parsed as CSV (text columns).
-     */
-    private static Dataset<Row> numberedCsv(SparkSession s, String location, String path) {
-        Dataset<Row> text = s.read().text(location);
-        Row first = text.first();
-        List<String> header;
-        try (org.apache.commons.csv.CSVParser p = org.apache.commons.csv.CSVParser.parse(first.getString(0),
-                org.apache.commons.csv.CSVFormat.RFC4180.builder().setIgnoreSurroundingSpaces(true).get())) {
-            header = p.getRecords().get(0).toList();
-        } catch (java.io.IOException | RuntimeException e) {
-            throw new InputException(path + ": line 1: the header is not valid CSV (" + firstLine(e) + ")");
-        }
-        org.apache.spark.sql.types.StructType columns = new org.apache.spark.sql.types.StructType();
-        for (String h : header) {
-            columns = columns.add(h, DataTypes.StringType, true);
-        }
-        org.apache.spark.api.java.JavaRDD<Row> numbered = text.javaRDD().zipWithIndex().filter(t -> t._2() > 0)
-                .map(t -> org.apache.spark.sql.RowFactory.create(t._1().getString(0), t._2() + 1));
-        Dataset<Row> lines = s.createDataFrame(numbered, new org.apache.spark.sql.types.StructType()
-                .add("value", DataTypes.StringType).add(LINE, DataTypes.LongType));
-        List<Column> out = new ArrayList<>();
-        for (String h : header) {
-            out.add(col("r." + "`" + h.replace("`", "``") + "`").as(h));
-        }
-        out.add(col(LINE));
-        return lines.select(org.apache.spark.sql.functions.from_csv(col("value"), lit(columns.toDDL()), Map.<String, String>of()).as("r"), col(LINE))
-                .select(out.toArray(new Column[0]));
-    }
-
-    private static String firstLine(Throwable e) {
-        String m = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
-        return m.lines().findFirst().orElse(m);
-    }
-
-    private static String require(Dataset<Row> df, DataSpec data, String logical, String name) {
-        String c = data.column(logical, logical);
-        if (!Arrays.asList(df.columns()).contains(c)) {
-            throw new InputException(name + ": missing column '" + c + "'" + (data.mapped(logical)
-                    ? " (data.columns." + logical + ")" : " (or set data.columns." + logical + ")")
-                    + "; columns found: '" + String.join("', '", df.columns()) + "'");
-        }
-        return c;
-    }
-
-    private static String optional(Dataset<Row> df, DataSpec data, String logical, String name) {
-        String c = data.column(logical, logical);
-        if (Arrays.asList(df.columns()).contains(c)) {
-            return c;
-        }
-        if (data.mapped(logical)) {
-            require(df, data, logical, name);
-        }
-        return null;
-    }
-
-    /**
-     * Refuses the data when some row matches: with the first lines, as the embedded engine names them, when the
-     * rows carry their line (one CSV file); else how many, and the first few values as they read.
-     */
-    static void refuse(Dataset<Row> df, Column bad, String column, String what, String name) {
-        long n = df.filter(bad).count();
-        if (n > 0 && Arrays.asList(df.columns()).contains(LINE)) {
-            List<String> lines = new ArrayList<>();
-            for (Row r : df.filter(bad).select(col(LINE)).orderBy(col(LINE)).limit(3).collectAsList()) {
-                lines.add(String.valueOf(r.getLong(0)));
-            }
-            throw new InputException(name + ": line" + (lines.size() == 1 ? " " : "s ") + String.join(", ", lines)
-                    + (n > lines.size() ? " and " + (n - lines.size()) + " more" : "") + ", column '" + column + "': " + what);
-        }
-        if (n > 0) {
-            List<String> shown = new ArrayList<>();
-            for (Row r : df.filter(bad).limit(3).collectAsList()) {
-                shown.add(r.mkString("|"));
-            }
-            throw new InputException(String.format(Locale.ROOT, "%s: %,d row%s, column '%s': %s (e.g. %s)", name, n,
-                    n == 1 ? "" : "s", column, what, String.join("; ", shown)));
-        }
-    }
-
     @Override
     public UsersStatistics users(DataSpec data, Path baseDir, boolean strict, boolean segmented) {
-        String name = name(data);
-        Dataset<Row> raw = read(data, baseDir);
-        String armCol = require(raw, data, "arm", name);
-        String segCol = segmented ? require(raw, data, "segment", name) : null;
-        String spendCol = optional(raw, data, "spend", name);
-        String convertedCol = spendCol == null ? optional(raw, data, "converted", name) : null;
+        String name = SparkSources.name(data);
+        Dataset<Row> raw = SparkSources.read(data, baseDir);
+        String armCol = SparkSources.require(raw, data, "arm", name);
+        String segCol = segmented ? SparkSources.require(raw, data, "segment", name) : null;
+        String spendCol = SparkSources.optional(raw, data, "spend", name);
+        String convertedCol = spendCol == null ? SparkSources.optional(raw, data, "converted", name) : null;
         if (spendCol == null && convertedCol == null) {
             throw new InputException(name + ": needs a spend column ('" + data.column("spend", "spend")
                     + "', set data.columns.spend) or a 0/1 conversion column ('" + data.column("converted", "converted")
@@ -210,8 +79,8 @@ public final class SparkStatistics implements StatisticsEngine {
         String valueCol = spendCol != null ? spendCol : convertedCol;
         selected.add(spendCol != null ? col(valueCol).try_cast("double").as("v") : col(valueCol).cast("string").as("v"));
         selected.add(col(valueCol).cast("string").as("raw"));
-        if (Arrays.asList(raw.columns()).contains(LINE)) {
-            selected.add(col(LINE));
+        if (Arrays.asList(raw.columns()).contains(SparkSources.LINE)) {
+            selected.add(col(SparkSources.LINE));
         }
         Dataset<Row> df = raw.select(selected.toArray(new Column[0]));
         boolean blankIsZero = spendCol != null && data.blankSpendIsZero();
@@ -247,7 +116,7 @@ public final class SparkStatistics implements StatisticsEngine {
         Row broken = df.agg(counts.get(0), counts.subList(1, counts.size()).toArray(new Column[0])).first();
         for (int i = 0; i < rules.size(); i++) {
             if (broken.getLong(i) > 0) {
-                refuse(df, (Column) rules.get(i)[0], (String) rules.get(i)[1], (String) rules.get(i)[2], name);
+                SparkSources.refuse(df, (Column) rules.get(i)[0], (String) rules.get(i)[1], (String) rules.get(i)[2], name);
             }
         }
         long blanks = blankIsZero ? broken.getLong(rules.size()) : 0;
@@ -265,7 +134,7 @@ public final class SparkStatistics implements StatisticsEngine {
             throw new InputException(name + ": no data rows");
         }
         List<String> warnings = dev.cairn.models.data.UsersWarnings.usersWarnings(name, data, spendCol, blanks);
-        String user = data.mapped("user") ? require(raw, data, "user", name) : null;
+        String user = data.mapped("user") ? SparkSources.require(raw, data, "user", name) : null;
         if (user != null) {
             Row r = raw.agg(count(lit(1)), countDistinct(col(user))).first();
             dev.cairn.models.data.UsersWarnings.duplicateUsers(name, user, r.getLong(0) - r.getLong(1), strict, warnings);
@@ -366,14 +235,14 @@ public final class SparkStatistics implements StatisticsEngine {
 
     @Override
     public List<JsonNode> rows(DataSpec data, Path baseDir) {
-        Dataset<Row> df = read(data, baseDir);
-        if (Arrays.asList(df.columns()).contains(LINE)) {
-            df = df.orderBy(col(LINE)).drop(LINE); // in file order: row i is line i + 2
+        Dataset<Row> df = SparkSources.read(data, baseDir);
+        if (Arrays.asList(df.columns()).contains(SparkSources.LINE)) {
+            df = df.orderBy(col(SparkSources.LINE)).drop(SparkSources.LINE); // in file order: row i is line i + 2
         }
         long n = df.count();
         if (n > dev.cairn.models.Limits.INLINE_ROWS) {
             throw new InputException(String.format(Locale.ROOT, "%s: %,d rows; a %s table is read whole and may have at "
-                    + "most %,d", name(data), n, data.layout(), dev.cairn.models.Limits.INLINE_ROWS));
+                    + "most %,d", SparkSources.name(data), n, data.layout(), dev.cairn.models.Limits.INLINE_ROWS));
         }
         String[] columns = df.columns();
         List<JsonNode> out = new ArrayList<>();
@@ -419,6 +288,6 @@ public final class SparkStatistics implements StatisticsEngine {
 
     @Override
     public List<JsonNode> activity(DataSpec data, Path baseDir, boolean survival) {
-        return SparkActivity.rows(read(data, baseDir), data, name(data), survival);
+        return SparkActivity.rows(SparkSources.read(data, baseDir), data, SparkSources.name(data), survival);
     }
 }
