@@ -256,7 +256,7 @@ public final class SparkStatistics implements StatisticsEngine {
         return out;
     }
 
-    /** A cell as the in-memory readers take it: numbers as numbers (text that reads as one too), the rest as text. */
+    /** A cell as read: numbers and booleans as such, anything else as its text (the models type the columns). */
     static JsonNode value(Object v) {
         JsonNodeFactory f = JsonNodeFactory.instance;
         if (v == null) {
@@ -269,21 +269,7 @@ public final class SparkStatistics implements StatisticsEngine {
         if (v instanceof Boolean b) {
             return f.booleanNode(b);
         }
-        String t = v.toString();
-        String s = t.strip();
-        if (!s.isEmpty() && (Character.isDigit(s.charAt(0)) || s.charAt(0) == '-' || s.charAt(0) == '.')) {
-            try {
-                if (s.matches("-?[0-9]+")) {
-                    return f.numberNode(Long.parseLong(s));
-                }
-                if (!s.matches(".*[0-9]{4}-[0-9]{2}.*")) { // not a date
-                    return f.numberNode(Double.parseDouble(s));
-                }
-            } catch (NumberFormatException e) {
-                // text after all
-            }
-        }
-        return f.textNode(t);
+        return f.textNode(v.toString());
     }
 
     @Override

@@ -75,7 +75,7 @@ public record CohortDays(List<String> cohorts, List<String> arms, long[][] insta
         if (StatisticsEngine.external(data)) {
             StatisticsEngine engine = StatisticsEngine.named(data.engine());
             List<com.fasterxml.jackson.databind.JsonNode> rows = "activity".equals(data.layout())
-                    ? engine.activity(data, baseDir, survival) : engine.rows(data, baseDir);
+                    ? engine.activity(data, baseDir, survival) : StatisticsEngine.typed(engine.rows(data, baseDir), types(data));
             return StatisticsEngine.fromRows(data, () -> readInline(new DataSpec(null, "cohort-days",
                     "activity".equals(data.layout()) ? null : data.columns(), rows), survival));
         }

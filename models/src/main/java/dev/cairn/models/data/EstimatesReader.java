@@ -23,8 +23,8 @@ final class EstimatesReader {
 
     static Estimates read(DataSpec data, Path baseDir) {
         if (StatisticsEngine.external(data)) {
-            return StatisticsEngine.fromRows(data, () -> readInline(data.withRows(
-                    StatisticsEngine.named(data.engine()).rows(data, baseDir))));
+            return StatisticsEngine.fromRows(data, () -> readInline(data.withRows(StatisticsEngine.typed(
+                    StatisticsEngine.named(data.engine()).rows(data, baseDir), types(data)))));
         }
         if (data.rows() != null) {
             return readInline(data);

@@ -83,7 +83,8 @@ public final class SpendDataReader {
         if (StatisticsEngine.external(data)) {
             StatisticsEngine engine = StatisticsEngine.named(data.engine());
             if ("summary".equals(data.layout())) {
-                return StatisticsEngine.fromRows(data, () -> SummaryLayout.readInline(data.withRows(engine.rows(data, baseDir)),
+                return StatisticsEngine.fromRows(data, () -> SummaryLayout.readInline(data.withRows(
+                        StatisticsEngine.typed(engine.rows(data, baseDir), c -> typeOf(c, data))),
                         segmented));
             }
             StatisticsEngine.UsersStatistics u = engine.users(data, baseDir, strict, segmented);

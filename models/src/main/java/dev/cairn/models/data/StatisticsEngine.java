@@ -32,7 +32,8 @@ public interface StatisticsEngine {
 
     /**
      * A small table read whole (layouts summary, estimates, cohort-days), each row as a JSON object of its
-     * columns, in the table's order where it has one.
+     * columns with the values as read (text from CSV, typed values otherwise; {@link #typed} then casts the
+     * layout's numeric columns), in the table's order where it has one.
      *
      * @param data    the spec's data part
      * @param baseDir the spec's folder
@@ -83,6 +84,37 @@ public interface StatisticsEngine {
         throw new InputException("/data/engine: '" + name + "' is not available here: the statistics on Spark are "
                 + "computed by cairn's Spark job (spark/target/cairn-spark-job.jar, run with spark-submit); the "
                 + "command line and the service use the embedded engine");
+    }
+
+    /**
+     * An engine's rows with the layout's numeric columns as numbers, as the embedded engine casts them: text
+     * that reads as a number becomes one, a blank becomes null, and other text stays (for the reader to refuse
+     * with its message); every other column keeps its value, so text such as an arm "007" is not changed.
+     *
+     * @param rows   the rows as the engine read them (text from CSV, typed values from Parquet or a table)
+     * @param typeOf a column's engine type ("DOUBLE" for numbers)
+     * @return the rows, numeric columns converted
+     */
+    static List<JsonNode> typed(List<JsonNode> rows, java.util.function.Function<String, String> typeOf) {
+        List<JsonNode> out = new java.util.ArrayList<>(rows.size());
+        for (JsonNode row : rows) {
+            com.fasterxml.jackson.databind.node.ObjectNode o = row.deepCopy();
+            for (java.util.Iterator<String> it = row.fieldNames(); it.hasNext(); ) {
+                String c = it.next();
+                JsonNode v = row.get(c);
+                if (v.isTextual() && "DOUBLE".equals(typeOf.apply(c))) {
+                    String t = v.asText().strip();
+                    try {
+                        o.set(c, t.isEmpty() ? com.fasterxml.jackson.databind.node.NullNode.getInstance()
+                                : com.fasterxml.jackson.databind.node.DoubleNode.valueOf(Double.parseDouble(t)));
+                    } catch (NumberFormatException e) {
+                        // stays text: the reader refuses it as not a number
+                    }
+                }
+            }
+            out.add(o);
+        }
+        return out;
     }
 
     /**

@@ -265,20 +265,9 @@ public final class LookRule {
         }
     }
 
-    /** {mu_n, kappa_n, alpha_n, beta_n} from an arm's sums (Murphy 2007, eqs. 86-89). */
+    /** {mu_n, kappa_n, alpha_n, beta_n} from an arm's sums {users, payers, S1, S2}. */
     private double[] nig(double[] a) {
-        double count = a[1];
-        NormalInverseGamma p = spendPrior;
-        if (count == 0) {
-            return new double[] {p.mu0(), p.kappa0(), p.alpha0(), p.beta0()};
-        }
-        double kn = p.kappa0() + count;
-        double ybar = a[2] / count;
-        double within = Math.max(0, a[3] - a[2] * ybar);
-        double mun = (p.kappa0() * p.mu0() + a[2]) / kn;
-        double an = p.alpha0() + count / 2;
-        double bn = p.beta0() + 0.5 * within + p.kappa0() * count * (ybar - p.mu0()) * (ybar - p.mu0()) / (2 * kn);
-        return new double[] {mun, kn, an, bn};
+        return spendPrior.posterior((long) a[1], a[2], a[3]);
     }
 
     /**

@@ -40,4 +40,27 @@ public record NormalInverseGamma(double mu0, double kappa0, double alpha0, doubl
         double v = sigma * sigma;
         return -(alpha0 + 1) * Math.log(v) - beta0 / v - kappa0 * (mu - mu0) * (mu - mu0) / (2 * v);
     }
+
+    /**
+     * The posterior after m observations with sum S1 and sum of squares S2 (Murphy 2007, eqs. 86-89):
+     * kappa_n = kappa0 + m, mu_n = (kappa0 mu0 + S1) / kappa_n, alpha_n = alpha0 + m / 2,
+     * beta_n = beta0 + (S2 - S1^2 / m) / 2 + kappa0 m (S1 / m - mu0)^2 / (2 kappa_n); the prior itself when m = 0.
+     *
+     * @param m  observations
+     * @param s1 their sum
+     * @param s2 the sum of their squares
+     * @return {mu_n, kappa_n, alpha_n, beta_n}
+     */
+    public double[] posterior(long m, double s1, double s2) {
+        if (m == 0) {
+            return new double[] {mu0, kappa0, alpha0, beta0};
+        }
+        double kn = kappa0 + m;
+        double ybar = s1 / m;
+        double within = Math.max(0, s2 - s1 * s1 / m);
+        double mun = (kappa0 * mu0 + s1) / kn;
+        double an = alpha0 + m / 2.0;
+        double bn = beta0 + 0.5 * within + kappa0 * m * (ybar - mu0) * (ybar - mu0) / (2 * kn);
+        return new double[] {mun, kn, an, bn};
+    }
 }

@@ -132,17 +132,7 @@ public final class SpendPosterior {
 
     /** {mu_n, kappa_n, alpha_n, beta_n} of the Normal-Inverse-Gamma posterior (Murphy 2007, eqs. 86-89). */
     static double[] nigPosterior(dev.cairn.models.prior.NormalInverseGamma prior, ArmStats a) {
-        long m = a.payers();
-        double kn = prior.kappa0() + m;
-        if (m == 0) {
-            return new double[] {prior.mu0(), prior.kappa0(), prior.alpha0(), prior.beta0()};
-        }
-        double ybar = a.meanLogSpend();
-        double mun = (prior.kappa0() * prior.mu0() + a.logSpendSum()) / kn;
-        double an = prior.alpha0() + m / 2.0;
-        double bn = prior.beta0() + 0.5 * a.logSpendSquaredDeviations()
-                + prior.kappa0() * m * (ybar - prior.mu0()) * (ybar - prior.mu0()) / (2 * kn);
-        return new double[] {mun, kn, an, bn};
+        return prior.posterior(a.payers(), a.logSpendSum(), a.logSpendSqSum());
     }
 
     /**
